@@ -1,0 +1,12 @@
+using System.CommandLine;
+
+namespace Kit.Cli.Commands;
+
+/// <summary>The list of subcommands. Add a new command here, one line each.</summary>
+internal static class CommandCatalog
+{
+    public static IEnumerable<Command> All()
+    {
+        yield return DemoDataCommand.Build();
+    }
+}
