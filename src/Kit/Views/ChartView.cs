@@ -1,0 +1,42 @@
+using System.Text.Json;
+using System.Text.Json.Nodes;
+
+namespace Kit.Views;
+
+/// <summary>One plotly.js figure (traces + layout as JSON) with the kit's layout defaults.</summary>
+public sealed class ChartView : IChartView
+{
+    static int _counter;
+
+    public string Title { get; }
+    public JsonArray Traces { get; }
+    public JsonObject Layout { get; }
+    public string? Caption { get; init; }
+    public int ChartCount => 1;
+
+    public ChartView(string title, JsonArray traces, JsonObject layout)
+    {
+        Title = title;
+        Traces = traces;
+        Layout = layout;
+    }
+
+    public string FigureJson() =>
+        new JsonObject { ["data"] = Traces.DeepClone(), ["layout"] = Layout.DeepClone() }.ToJsonString(JsonOptions);
+
+    public string ToHtml()
+    {
+        string id = $"kit-chart-{Interlocked.Increment(ref _counter)}-{Guid.NewGuid().ToString("N")[..6]}";
+        string data = Traces.ToJsonString(JsonOptions);
+        string layout = Layout.ToJsonString(JsonOptions);
+        const string config = "{\"responsive\":true,\"displaylogo\":false}";
+        // Deferred until plotly.js is present, so the fragment works whether the bundle comes before or after it.
+        string caption = Caption is null ? "" : $"<figcaption>{Html.Escape(Caption)}</figcaption>";
+        return $"<figure class=\"kit-chart\"><div id=\"{id}\" class=\"kit-plot\" data-kit-chart=\"1\"></div>{caption}" +
+               $"<script>(function(){{var draw=function(){{if(window.Plotly){{Plotly.newPlot('{id}',{Safe(data)},{Safe(layout)},{config});}}else{{setTimeout(draw,50);}}}};draw();}})();</script></figure>";
+    }
+
+    static string Safe(string json) => json.Replace("</", "<\\/", StringComparison.Ordinal);
+
+    internal static readonly JsonSerializerOptions JsonOptions = new() { WriteIndented = false };
+}

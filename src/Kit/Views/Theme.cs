@@ -1,0 +1,67 @@
+using System.Text.Json.Nodes;
+
+namespace Kit.Views;
+
+/// <summary>
+/// The kit's one visual language: a muted palette chosen for print and for colour-blind readers (hues spaced
+/// apart, varied in lightness), one font stack, generous margins, and titles that say what to read off the chart.
+/// </summary>
+public static class Theme
+{
+    public static readonly string[] Palette =
+    {
+        "#2E5E8C", // deep blue
+        "#D9822B", // amber
+        "#3C8D6E", // green
+        "#A8443A", // brick
+        "#7B62A3", // violet
+        "#8C7A3A", // ochre
+        "#4E9BB5", // sky
+        "#6B6B6B", // grey
+    };
+
+    public const string Ink = "#1F2933";
+    public const string Muted = "#6B7785";
+    public const string Grid = "#E4E7EB";
+    public const string Good = "#3C8D6E";
+    public const string Bad = "#A8443A";
+    public const string FontStack = "'Source Sans 3', 'Segoe UI', 'Helvetica Neue', Arial, sans-serif";
+
+    /// <summary>Sequential scale from paper white to the deep blue, for counts and rates.</summary>
+    public static JsonArray SequentialScale() => new(
+        new JsonArray(0.0, "#F7F9FB"), new JsonArray(0.35, "#B9CEE0"), new JsonArray(0.7, "#5C8DB8"), new JsonArray(1.0, "#1D3F61"));
+
+    /// <summary>Diverging scale centred on white, for signed changes (e.g. occlusion).</summary>
+    public static JsonArray DivergingScale() => new(
+        new JsonArray(0.0, "#A8443A"), new JsonArray(0.5, "#F7F7F7"), new JsonArray(1.0, "#2E5E8C"));
+
+    public static string Colour(int i) => Palette[((i % Palette.Length) + Palette.Length) % Palette.Length];
+
+    public static JsonObject Layout(string title, string xTitle, string yTitle, int height = 380)
+    {
+        return new JsonObject
+        {
+            ["title"] = new JsonObject { ["text"] = title, ["x"] = 0.0, ["xanchor"] = "left", ["font"] = new JsonObject { ["size"] = 15, ["color"] = Ink } },
+            ["font"] = new JsonObject { ["family"] = FontStack, ["size"] = 12, ["color"] = Ink },
+            ["paper_bgcolor"] = "#FFFFFF",
+            ["plot_bgcolor"] = "#FFFFFF",
+            ["height"] = height,
+            ["margin"] = new JsonObject { ["l"] = 64, ["r"] = 24, ["t"] = 56, ["b"] = 56 },
+            ["xaxis"] = Axis(xTitle),
+            ["yaxis"] = Axis(yTitle),
+            ["legend"] = new JsonObject { ["orientation"] = "h", ["y"] = -0.22, ["x"] = 0.0 },
+            ["hoverlabel"] = new JsonObject { ["font"] = new JsonObject { ["family"] = FontStack } },
+        };
+    }
+
+    public static JsonObject Axis(string title) => new()
+    {
+        ["title"] = new JsonObject { ["text"] = title },
+        ["gridcolor"] = Grid,
+        ["zerolinecolor"] = Grid,
+        ["linecolor"] = Muted,
+        ["ticks"] = "outside",
+        ["tickcolor"] = Muted,
+        ["automargin"] = true,
+    };
+}
