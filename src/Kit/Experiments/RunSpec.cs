@@ -1,0 +1,42 @@
+using Kit.Data;
+using Kit.Models;
+using Kit.Training;
+
+namespace Kit.Experiments;
+
+public enum TokenizerKind { Character, Byte, Word }
+
+/// <summary>Everything that defines one train-and-evaluate run: data, tokenisation, split, model, training.</summary>
+public sealed record RunSpec
+{
+    public required string DataPath { get; init; }
+    public ColumnSpec Columns { get; init; } = new();
+    public TokenizerKind Tokenizer { get; init; } = TokenizerKind.Character;
+    public bool FoldCase { get; init; }
+    public int MaxLength { get; init; } = 64;
+    public TruncationPolicy Truncation { get; init; } = TruncationPolicy.KeepHead;
+    public int MinTokenCount { get; init; } = 1;
+    public double TrainFraction { get; init; } = 0.7;
+    public double ValidationFraction { get; init; } = 0.15;
+    public double TestFraction { get; init; } = 0.15;
+    /// <summary>Keep every group in one part (needs a group column); otherwise a stratified holdout.</summary>
+    public bool GroupAware { get; init; } = true;
+    public ulong SplitSeed { get; init; } = 17;
+    public CellKind Cell { get; init; } = CellKind.Gru;
+    public int EmbeddingSize { get; init; } = 32;
+    public int HiddenSize { get; init; } = 64;
+    public int Layers { get; init; } = 1;
+    public bool Bidirectional { get; init; }
+    public PoolingKind Pooling { get; init; } = PoolingKind.Last;
+    public TrainingOptions Training { get; init; } = new();
+    /// <summary>Use only this many rows (a stratified sample), for quick runs; null uses all.</summary>
+    public int? SampleRows { get; init; }
+
+    public ITokenizer CreateTokenizer() => Tokenizer switch
+    {
+        TokenizerKind.Character => new CharacterTokenizer(FoldCase),
+        TokenizerKind.Byte => new ByteTokenizer(),
+        TokenizerKind.Word => new WordTokenizer(lowerCase: true),
+        _ => throw new ArgumentOutOfRangeException(nameof(Tokenizer)),
+    };
+}

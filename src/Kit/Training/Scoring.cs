@@ -1,0 +1,48 @@
+using Kit.Batching;
+using Kit.Data;
+using Kit.Models;
+using TorchSharp;
+using static TorchSharp.torch;
+
+namespace Kit.Training;
+
+/// <summary>Runs a trained model over a set and hands back plain arrays for the diagnostics layer.</summary>
+public static class Scoring
+{
+    /// <summary>Raw logits, one row per sequence, in the set's order.</summary>
+    public static double[][] Logits(SequenceClassifier model, EncodedSet set, int batchSize = 512)
+    {
+        Kit.Native.Engine.EnsureLoaded();
+        model.eval();
+        using var noGrad = torch.no_grad();
+        var result = new double[set.Count][];
+        foreach (var rows in new SequentialBatchSampler(batchSize).Batches(set, 0))
+        {
+            using var scope = torch.NewDisposeScope();
+            using var batch = BatchBuilder.Build(set, rows);
+            var logits = model.forward(batch.Tokens, batch.Lengths).to(ScalarType.Float64).contiguous();
+            var flat = logits.data<double>().ToArray();
+            int classes = (int)logits.shape[1];
+            for (int i = 0; i < rows.Length; i++)
+                result[rows[i]] = flat.AsSpan(i * classes, classes).ToArray();
+        }
+        return result;
+    }
+
+    /// <summary>Softmax of logits / temperature, computed stably in double precision.</summary>
+    public static double[][] Softmax(double[][] logits, double temperature = 1.0)
+    {
+        var result = new double[logits.Length][];
+        for (int i = 0; i < logits.Length; i++)
+        {
+            var z = logits[i];
+            double max = z.Max();
+            var p = new double[z.Length];
+            double sum = 0;
+            for (int k = 0; k < z.Length; k++) sum += p[k] = Math.Exp((z[k] - max) / temperature);
+            for (int k = 0; k < z.Length; k++) p[k] /= sum;
+            result[i] = p;
+        }
+        return result;
+    }
+}

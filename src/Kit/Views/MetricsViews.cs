@@ -1,0 +1,63 @@
+using System.Text.Json.Nodes;
+using Kit.Diagnostics;
+
+namespace Kit.Views;
+
+/// <summary>Headline metrics, the per-class table and the confusion matrix heat maps.</summary>
+public static class MetricsViews
+{
+    public static TextView Summary(ClassificationMetrics m, string split = "test")
+    {
+        var rows = new List<string[]>
+        {
+            new[] { "accuracy", Html.Pct(m.Accuracy) },
+            new[] { "balanced accuracy", Html.Pct(m.BalancedAccuracy) },
+            new[] { "macro F1", Html.Num(m.MacroF1) },
+            new[] { "weighted F1", Html.Num(m.WeightedF1) },
+            new[] { "log loss (nats)", Html.Num(m.LogLoss) },
+            new[] { "Brier score", Html.Num(m.Brier) },
+        };
+        string headline = Html.Table(new[] { "metric", split }, rows, $"Headline metrics on the {split} split");
+        string perClass = Html.Table(new[] { "class", "precision", "recall", "F1", "support" },
+            m.PerClass.Select(c => (IReadOnlyList<string>)new[] { c.Class, Html.Num(c.Precision), Html.Num(c.Recall), Html.Num(c.F1), c.Support.ToString() }),
+            "Per class");
+        return new TextView($"Metrics ({split} split)", headline + perClass);
+    }
+
+    public static ChartView Confusion(ClassificationMetrics m, bool normalised)
+    {
+        var names = m.ClassNames;
+        int k = names.Count;
+        var z = new JsonArray();
+        var text = new JsonArray();
+        for (int i = 0; i < k; i++)
+        {
+            var row = new JsonArray();
+            var trow = new JsonArray();
+            for (int j = 0; j < k; j++)
+            {
+                double v = normalised ? m.ConfusionNormalised[i, j] : m.Confusion[i, j];
+                row.Add(v);
+                trow.Add(normalised ? Html.Pct(v, 0) : m.Confusion[i, j].ToString());
+            }
+            z.Add(row);
+            text.Add(trow);
+        }
+        var trace = new JsonObject
+        {
+            ["type"] = "heatmap", ["z"] = z, ["text"] = text, ["texttemplate"] = "%{text}",
+            ["x"] = new JsonArray(names.Select(n => (JsonNode)n).ToArray()), ["y"] = new JsonArray(names.Select(n => (JsonNode)n).ToArray()),
+            ["colorscale"] = Theme.SequentialScale(), ["showscale"] = true,
+            ["hovertemplate"] = normalised ? "true %{y}<br>predicted %{x}<br>%{z:.1%} of the true class<extra></extra>" : "true %{y}<br>predicted %{x}<br>%{z} rows<extra></extra>",
+            ["colorbar"] = new JsonObject { ["title"] = new JsonObject { ["text"] = normalised ? "share of row" : "rows" } },
+        };
+        if (normalised) { trace["zmin"] = 0.0; trace["zmax"] = 1.0; }
+        string title = normalised
+            ? "Confusion matrix, row-normalised — the diagonal is each class's recall"
+            : "Confusion matrix, counts — off-diagonal cells are the mistakes";
+        var layout = Theme.Layout(title, "predicted class", "true class", height: 120 + 46 * k);
+        layout["yaxis"]!["autorange"] = "reversed";
+        layout["xaxis"]!["tickangle"] = -30;
+        return new ChartView(normalised ? "Confusion matrix (normalised)" : "Confusion matrix (counts)", new JsonArray(trace), layout);
+    }
+}
