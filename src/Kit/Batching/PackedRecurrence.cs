@@ -1,0 +1,99 @@
+using TorchSharp;
+using TorchSharp.Modules;
+using static TorchSharp.torch;
+using static TorchSharp.torch.nn.utils.rnn;
+
+namespace Kit.Batching;
+
+/// <summary>
+/// What a recurrent cell returns for a padded batch: per-step outputs [B, T, H × directions] (zeros at pad
+/// steps) and final states [layers × directions, B, H] in the engine's layout; <see cref="FinalCell"/> only for
+/// LSTM. Rows are in the caller's order.
+/// </summary>
+public sealed record RecurrenceResult(Tensor Outputs, Tensor FinalHidden, Tensor? FinalCell) : IDisposable
+{
+    public void Dispose()
+    {
+        Outputs.Dispose();
+        FinalHidden.Dispose();
+        FinalCell?.Dispose();
+    }
+}
+
+/// <summary>
+/// Runs an engine GRU, LSTM or RNN (batch-first) over a right-padded batch through the engine's packed
+/// sequences, so no step of any row reads a pad and each direction's final state is taken at that row's real
+/// end. Rows may come in any length order: the engine sorts internally (enforce_sorted = false) and its
+/// results are put back in the caller's order.
+/// </summary>
+public static class PackedRecurrence
+{
+    public static RecurrenceResult Run(nn.Module cell, Tensor embedded, Tensor lengths)
+    {
+        Kit.Native.Engine.EnsureLoaded();
+        if (embedded.dim() != 3) throw new ArgumentException($"expected embedded input [B, T, E], got {embedded.dim()} dimension(s)");
+        if (lengths.dim() != 1 || lengths.shape[0] != embedded.shape[0])
+            throw new ArgumentException($"lengths must be [B] = [{embedded.shape[0]}], got [{string.Join(", ", lengths.shape)}]");
+
+        using var scope = torch.NewDisposeScope();
+        // The engine reads lengths on the CPU as int64.
+        var cpuLengths = lengths.to(ScalarType.Int64).cpu();
+        long steps = embedded.shape[1];
+        if (cpuLengths.min().item<long>() < 1 || cpuLengths.max().item<long>() > steps)
+            throw new ArgumentException($"every length must be in 1..{steps} (the batch's step count)");
+
+        using var packed = pack_padded_sequence(embedded, cpuLengths, batch_first: true, enforce_sorted: false);
+        Tensor outputs, hidden;
+        Tensor? cellState = null;
+        switch (cell)
+        {
+            case GRU gru:
+                {
+                    var (po, h) = gru.call(packed, null);
+                    using (po) outputs = Unpack(po, steps);
+                    hidden = h;
+                    break;
+                }
+            case LSTM lstm:
+                {
+                    var (po, h, c) = lstm.call(packed, null);
+                    using (po) outputs = Unpack(po, steps);
+                    hidden = h;
+                    cellState = c;
+                    break;
+                }
+            case RNN rnn:
+                {
+                    var (po, h) = rnn.call(packed, null);
+                    using (po) outputs = Unpack(po, steps);
+                    hidden = h;
+                    break;
+                }
+            default:
+                throw new ArgumentException($"PackedRecurrence runs GRU, LSTM or RNN modules, not {cell.GetType().Name}");
+        }
+        return new RecurrenceResult(outputs.MoveToOuterDisposeScope(), hidden.MoveToOuterDisposeScope(), cellState?.MoveToOuterDisposeScope());
+    }
+
+    /// <summary>Runs the cell over a padded batch as is (no packing): outputs only, caller's order.</summary>
+    public static Tensor RunPadded(nn.Module cell, Tensor embedded)
+    {
+        Kit.Native.Engine.EnsureLoaded();
+        using var scope = torch.NewDisposeScope();
+        Tensor outputs = cell switch
+        {
+            GRU gru => gru.call(embedded, null).Item1,
+            LSTM lstm => lstm.call(embedded, null).Item1,
+            RNN rnn => rnn.call(embedded, null).Item1,
+            _ => throw new ArgumentException($"RunPadded runs GRU, LSTM or RNN modules, not {cell.GetType().Name}"),
+        };
+        return outputs.MoveToOuterDisposeScope();
+    }
+
+    static Tensor Unpack(PackedSequence packed, long steps)
+    {
+        var (padded, lens) = pad_packed_sequence(packed, batch_first: true, padding_value: 0.0, total_length: steps);
+        lens.Dispose();
+        return padded;
+    }
+}
