@@ -111,7 +111,12 @@ internal static class JsonLinesReader
 
     static string FirstSentence(string message)
     {
-        int cut = message.IndexOf(" Path:", StringComparison.Ordinal);
-        return (cut > 0 ? message[..cut] : message).TrimEnd('.', ' ');
+        // System.Text.Json appends " LineNumber: … | BytePositionInLine: …" and " Path: …"; the location is reported separately.
+        foreach (var marker in new[] { " LineNumber:", " Path:" })
+        {
+            int cut = message.IndexOf(marker, StringComparison.Ordinal);
+            if (cut > 0) message = message[..cut];
+        }
+        return message.TrimEnd('.', ' ');
     }
 }
