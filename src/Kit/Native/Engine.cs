@@ -178,7 +178,7 @@ public static class Engine
         yield return Path.Combine(AppContext.BaseDirectory, "runtimes", "linux-x64", "native");
     }
 
-    static string? FindGlue(Assembly torchAssembly)
+    internal static string? FindGlue(Assembly torchAssembly)
     {
         foreach (var d in NativeDirs(torchAssembly))
         {
@@ -190,7 +190,7 @@ public static class Engine
         return File.Exists(fromCache) ? fromCache : null;
     }
 
-    static string? FindLibtorchDir(Assembly torchAssembly, string glueDir)
+    internal static string? FindLibtorchDir(Assembly torchAssembly, string glueDir)
     {
         foreach (var d in NativeDirs(torchAssembly).Prepend(glueDir))
             if (File.Exists(Path.Combine(d, "libtorch_cpu.so"))) return Path.GetFullPath(d);
