@@ -8,5 +8,6 @@ internal static class CommandCatalog
     public static IEnumerable<Command> All()
     {
         yield return DemoDataCommand.Build();
+        yield return NotebookCommand.Build();
     }
 }
