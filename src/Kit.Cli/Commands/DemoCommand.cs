@@ -45,5 +45,6 @@ internal static class DemoCommand
         HiddenSize = 64,
         SampleRows = quick ? 6000 : null,
         Training = new TrainingOptions { Epochs = quick ? 4 : 8, BatchSize = 64, LearningRate = 3e-3, Seed = 1 },
+        Diagnostics = quick ? DiagnosticsOptions.Quick : new DiagnosticsOptions(),
     };
 }

@@ -31,6 +31,8 @@ public sealed record RunSpec
     public TrainingOptions Training { get; init; } = new();
     /// <summary>Use only this many rows (a stratified sample), for quick runs; null uses all.</summary>
     public int? SampleRows { get; init; }
+    /// <summary>How much work the report's diagnostics may do (t-SNE budget, bootstrap, table sizes).</summary>
+    public DiagnosticsOptions Diagnostics { get; init; } = new();
 
     public ITokenizer CreateTokenizer() => Tokenizer switch
     {

@@ -25,6 +25,10 @@ public static class HistoryViews
         y2["showgrid"] = false;
         layout["yaxis2"] = y2;
         layout["xaxis"]!["dtick"] = 1;
+        // The right-hand accuracy axis takes the space a side legend would use, so this legend sits underneath.
+        layout["legend"] = new JsonObject { ["orientation"] = "h", ["x"] = 0.0, ["xanchor"] = "left", ["y"] = -0.28, ["yanchor"] = "top" };
+        layout["margin"]!["b"] = 96;
+        layout["height"] = 420;
         layout["shapes"] = new JsonArray(new JsonObject
         {
             ["type"] = "line", ["xref"] = "x", ["yref"] = "paper", ["x0"] = history.BestEpoch, ["x1"] = history.BestEpoch,

@@ -15,6 +15,9 @@ public static class Html
     public static string Pct(double v, int digits = 1) =>
         double.IsNaN(v) ? "–" : (100 * v).ToString("F" + digits, CultureInfo.InvariantCulture) + " %";
 
+    /// <summary>A whole count with thousands separators, the same on every machine.</summary>
+    public static string Count(long v) => v.ToString("N0", CultureInfo.InvariantCulture);
+
     /// <summary>A plain table; the first row of <paramref name="rows"/> is data, headers come separately.</summary>
     public static string Table(IReadOnlyList<string> headers, IEnumerable<IReadOnlyList<string>> rows, string? caption = null, bool numericRight = true)
     {

@@ -24,6 +24,35 @@ public static class MetricsViews
         return new TextView($"Metrics ({split} split)", headline + perClass);
     }
 
+    /// <summary>Precision, recall and F1 side by side per class, support in the tick label.</summary>
+    public static ChartView PerClass(ClassificationMetrics m, string split = "test")
+    {
+        var ticks = Figure.Texts(m.PerClass.Select(c => $"{c.Class} (n={c.Support})"));
+        var traces = new JsonArray();
+        var series = new (string Name, Func<ClassScores, double> Get)[] { ("precision", c => c.Precision), ("recall", c => c.Recall), ("F1", c => c.F1) };
+        for (int i = 0; i < series.Length; i++)
+        {
+            var (name, get) = series[i];
+            traces.Add(new JsonObject
+            {
+                ["type"] = "bar", ["name"] = name, ["x"] = ticks.DeepClone(), ["y"] = Figure.Numbers(m.PerClass.Select(get)),
+                ["marker"] = new JsonObject { ["color"] = Theme.Colour(i) },
+                ["hovertemplate"] = $"%{{x}}<br>{name} %{{y:.3f}}<extra></extra>",
+            });
+        }
+        var weakest = m.PerClass.Where(c => c.Support > 0).OrderBy(c => c.F1).FirstOrDefault();
+        string title = weakest is null ? $"Per-class scores ({split} split)"
+            : $"Per-class scores ({split} split) — weakest class by F1: {weakest.Class} ({Html.Num(weakest.F1)})";
+        var layout = Theme.Layout(title, "class (test rows in brackets)", "score (0 to 1)", height: 420);
+        layout["barmode"] = "group";
+        layout["yaxis"]!["range"] = Figure.Pair(0, 1.05);
+        layout["xaxis"]!["tickangle"] = -30;
+        return new ChartView("Per-class precision, recall and F1", traces, layout)
+        {
+            Caption = "Precision: of the rows predicted as the class, the share that are. Recall: of the class's rows, the share found.",
+        };
+    }
+
     public static ChartView Confusion(ClassificationMetrics m, bool normalised)
     {
         var names = m.ClassNames;
@@ -46,7 +75,7 @@ public static class MetricsViews
         var trace = new JsonObject
         {
             ["type"] = "heatmap", ["z"] = z, ["text"] = text, ["texttemplate"] = "%{text}",
-            ["x"] = new JsonArray(names.Select(n => (JsonNode)n).ToArray()), ["y"] = new JsonArray(names.Select(n => (JsonNode)n).ToArray()),
+            ["x"] = Figure.Texts(names), ["y"] = Figure.Texts(names),
             ["colorscale"] = Theme.SequentialScale(), ["showscale"] = true,
             ["hovertemplate"] = normalised ? "true %{y}<br>predicted %{x}<br>%{z:.1%} of the true class<extra></extra>" : "true %{y}<br>predicted %{x}<br>%{z} rows<extra></extra>",
             ["colorbar"] = new JsonObject { ["title"] = new JsonObject { ["text"] = normalised ? "share of row" : "rows" } },

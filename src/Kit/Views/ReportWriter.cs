@@ -26,8 +26,15 @@ public static class ReportWriter
         table.kit-table th { text-align: left; border-bottom: 2px solid var(--ink); padding: 4px 10px; }
         table.kit-table td { border-bottom: 1px solid var(--rule); padding: 3px 10px; }
         table.kit-table td.num { text-align: right; font-variant-numeric: tabular-nums; }
+        .kit-stack > * + * { margin-top: 14px; }
+        p.kit-ok { color: #2F6E55; } p.kit-warn { color: #A8443A; font-weight: 600; }
+        p.kit-occlusion { font-family: 'DejaVu Sans Mono', Consolas, monospace; font-size: 15px; line-height: 2; white-space: pre-wrap; word-break: break-all; }
+        span.kit-token { padding: 2px 1px; border-radius: 2px; -webkit-print-color-adjust: exact; print-color-adjust: exact; }
+        span.kit-unknown { text-decoration: underline dotted; }
+        p.kit-legend { color: var(--muted); font-size: 12px; }
+        p.kit-legend span.kit-token { color: var(--ink); padding: 1px 4px; }
         footer.kit-cautions { border-top: 1px solid var(--rule); margin-top: 36px; padding-top: 10px; color: var(--muted); font-size: 12px; }
-        @media print { body { background: #FFFFFF; } main { max-width: none; padding: 0; } section.kit-section { page-break-inside: avoid; } }
+        @media print { body { background: #FFFFFF; } main { max-width: none; padding: 0; } section.kit-section { page-break-inside: avoid; } figure.kit-chart { page-break-inside: avoid; } }
         """;
 
     public static string Render(string title, string subtitle, IEnumerable<IView> views)

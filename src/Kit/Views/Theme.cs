@@ -37,26 +37,44 @@ public static class Theme
 
     public static string Colour(int i) => Palette[((i % Palette.Length) + Palette.Length) % Palette.Length];
 
+    /// <summary>Layout defaults for one chart. Title and axis titles are plain text (entity-encoded here).</summary>
     public static JsonObject Layout(string title, string xTitle, string yTitle, int height = 380)
     {
         return new JsonObject
         {
-            ["title"] = new JsonObject { ["text"] = title, ["x"] = 0.0, ["xanchor"] = "left", ["font"] = new JsonObject { ["size"] = 15, ["color"] = Ink } },
+            ["title"] = new JsonObject
+            {
+                ["text"] = TitleMarkup(title), ["x"] = 0.0, ["xanchor"] = "left", ["xref"] = "paper", ["y"] = 0.985, ["yanchor"] = "top", ["yref"] = "container",
+                ["font"] = new JsonObject { ["size"] = 15, ["color"] = Ink },
+            },
             ["font"] = new JsonObject { ["family"] = FontStack, ["size"] = 12, ["color"] = Ink },
             ["paper_bgcolor"] = "#FFFFFF",
             ["plot_bgcolor"] = "#FFFFFF",
             ["height"] = height,
-            ["margin"] = new JsonObject { ["l"] = 64, ["r"] = 24, ["t"] = 56, ["b"] = 56 },
+            ["margin"] = new JsonObject { ["l"] = 64, ["r"] = 24, ["t"] = 72, ["b"] = 56 },
             ["xaxis"] = Axis(xTitle),
             ["yaxis"] = Axis(yTitle),
-            ["legend"] = new JsonObject { ["orientation"] = "h", ["y"] = -0.22, ["x"] = 0.0 },
+            // Beside the plot, top right: it never collides with an axis title, however the ticks are turned.
+            ["legend"] = new JsonObject { ["orientation"] = "v", ["x"] = 1.02, ["xanchor"] = "left", ["y"] = 1.0, ["yanchor"] = "top",
+                ["font"] = new JsonObject { ["size"] = 11 } },
             ["hoverlabel"] = new JsonObject { ["font"] = new JsonObject { ["family"] = FontStack } },
         };
     }
 
+    /// <summary>
+    /// Titles follow one pattern: what the chart is, then " — " and what to read off it. The second part goes on
+    /// its own line in smaller, muted type, so long readings never run past the chart's edge.
+    /// </summary>
+    public static string TitleMarkup(string title)
+    {
+        int cut = title.IndexOf(" — ", StringComparison.Ordinal);
+        if (cut < 0) return $"<b>{Figure.Text(title)}</b>";
+        return $"<b>{Figure.Text(title[..cut])}</b><br><span style=\"font-size:12px;color:{Muted}\">{Figure.Text(title[(cut + 3)..])}</span>";
+    }
+
     public static JsonObject Axis(string title) => new()
     {
-        ["title"] = new JsonObject { ["text"] = title },
+        ["title"] = new JsonObject { ["text"] = Figure.Text(title) },
         ["gridcolor"] = Grid,
         ["zerolinecolor"] = Grid,
         ["linecolor"] = Muted,

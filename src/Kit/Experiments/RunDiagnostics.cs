@@ -1,0 +1,153 @@
+using Kit.Data;
+using Kit.Diagnostics;
+
+namespace Kit.Experiments;
+
+/// <summary>
+/// Every result record the report of one run shows, computed from a <see cref="RunOutcome"/>: the data
+/// (profile, split, leakage, vocabulary coverage), the test split's scores, accuracy by token length,
+/// calibration (equal-width and equal-mass bins, per class, temperature fitted on validation), projections of
+/// the embedding matrix and of pooled test representations, error tables and occlusion of chosen test rows.
+/// The model is read once here, as plain arrays, so the views never touch the engine.
+/// </summary>
+public sealed record RunDiagnostics
+{
+    public required DatasetProfile Profile { get; init; }
+    /// <summary>The run's split with token lengths per part (lengths before truncation).</summary>
+    public required SplitSummary Split { get; init; }
+    public required LeakageReport Leakage { get; init; }
+    public required IReadOnlyList<VocabularyCoverage> Coverage { get; init; }
+    /// <summary>Token length (before truncation) of each test row, in the test set's order.</summary>
+    public required int[] TestLengths { get; init; }
+    public required LengthBreakdown ByLength { get; init; }
+    public required CalibrationReport Calibration { get; init; }
+    public required CalibrationReport CalibrationEqualMass { get; init; }
+    public required TemperatureReport Temperature { get; init; }
+    /// <summary>Test-split calibration after dividing the logits by the fitted temperature (equal-width bins).</summary>
+    public required CalibrationReport CalibrationAfterScaling { get; init; }
+    /// <summary>PCA of the embedding matrix, one point per vocabulary entry except padding.</summary>
+    public Projection? Embedding { get; init; }
+    /// <summary>t-SNE of pooled test representations (null when the test split is too small or the budget is 0).</summary>
+    public Projection? TestRepresentations { get; init; }
+    public required ErrorAnalysis Errors { get; init; }
+    public required IReadOnlyList<OcclusionCase> Occlusions { get; init; }
+    public required DiagnosticsOptions Options { get; init; }
+
+    /// <summary>Fewer test rows than this and a t-SNE picture shows noise, so none is drawn.</summary>
+    public const int MinProjectedRows = 20;
+
+    public static RunDiagnostics Compute(RunOutcome run, DiagnosticsOptions? options = null, IProgress<string>? stages = null)
+    {
+        ArgumentNullException.ThrowIfNull(run);
+        options ??= run.Spec.Diagnostics;
+        options.Validate();
+        var names = run.Labels.Names;
+        var split = run.Split;
+        var used = run.Table.Subset(run.Rows);
+
+        stages?.Report("profile, split and leakage audit");
+        var profile = DatasetProfile.Compute(used, run.Tokenizer);
+        int[] lengths = profile.RowLengths;
+        int[] y = run.Rows.Select(r => run.Labels[run.Table.Labels[r]]).ToArray();
+        var splitSummary = SplitSummary.Of(split.Summary.Method, split.Summary.Seed, y, lengths,
+            (Kit.Data.Split.PartNames[0], split.Train), (Kit.Data.Split.PartNames[1], split.Validation), (Kit.Data.Split.PartNames[2], split.Test));
+        var leakage = LeakageAudit.Run(used, split);
+        var coverage = Enumerable.Range(0, 3)
+            .Select(p => run.Vocabulary.Coverage(split.Rows(p).Select(i => run.Tokenizer.Split(used.Texts[i])), Kit.Data.Split.PartNames[p]))
+            .ToArray();
+
+        stages?.Report("test-split scores by length and calibration");
+        int[] labels = run.Test.Labels;
+        int[] predicted = run.TestMetrics.Predicted;
+        int[] testLengths = split.Test.Select(i => lengths[i]).ToArray();
+        var byLength = LengthBreakdown.Compute(labels, predicted, testLengths, names, LengthBins.Quantiles(options.LengthBins));
+        var calibration = CalibrationReport.Compute(labels, run.TestProbabilities, names, options.ReliabilityBins, BinningScheme.EqualWidth,
+            options.BootstrapReplicates, options.Seed);
+        var equalMass = CalibrationReport.Compute(labels, run.TestProbabilities, names, options.ReliabilityBins, BinningScheme.EqualMass,
+            options.BootstrapReplicates, options.Seed);
+        var temperature = TemperatureReport.Compute(run.ValidationLogits, run.Validation.Labels, run.TestLogits, labels, names, options.ReliabilityBins);
+        var after = CalibrationReport.Compute(labels, TemperatureScaling.Apply(run.TestLogits, temperature.Temperature), names,
+            options.ReliabilityBins, BinningScheme.EqualWidth, bootstrap: 0);
+
+        stages?.Report("embedding PCA");
+        Projection? embedding = null;
+        if (run.Config.EmbeddingSize >= 2 && run.Vocabulary.Count >= 3)
+        {
+            var matrix = ModelReadout.Embedding(run.Model);
+            // Row 0 is padding: it never carries meaning and would sit at the origin as an outlier.
+            embedding = Projection.OfTokens(matrix.Skip(1).ToArray(), run.Vocabulary.Tokens.Skip(1).ToArray(), ProjectionMethod.Pca);
+        }
+
+        Projection? representations = null;
+        int take = Math.Min(options.ProjectionMaxPoints, run.Test.Count);
+        if (take >= MinProjectedRows)
+        {
+            stages?.Report($"t-SNE of {take} pooled test representations");
+            int[] sample = take < run.Test.Count ? SingleRun.StratifiedSample(labels, take, options.Seed) : Enumerable.Range(0, run.Test.Count).ToArray();
+            var subset = run.Test.Subset(sample);
+            var pooled = ModelReadout.Pooled(run.Model, subset);
+            var texts = run.TestTexts();
+            var tsne = new TsneOptions
+            {
+                Iterations = options.TsneIterations,
+                ExaggerationIterations = Math.Min(250, options.TsneIterations / 2),
+                MomentumSwitchIteration = Math.Min(250, options.TsneIterations / 2),
+                // Perplexity must stay well below the point count or every point's neighbourhood is everyone.
+                Perplexity = Math.Min(options.TsnePerplexity, (sample.Length - 1) / 3.0),
+                Seed = options.Seed,
+            };
+            representations = Projection.OfSequences(pooled, subset.Labels, names, ProjectionMethod.Tsne,
+                sample.Select(i => predicted[i]).ToArray(), sample.Select(i => texts[i]).ToArray(), tsne);
+        }
+
+        stages?.Report("error tables and occlusion");
+        var testTexts = run.TestTexts();
+        var errors = ErrorAnalysis.Compute(labels, run.TestProbabilities, testTexts, names, options.ErrorRows);
+        var occlusions = ExplainByOcclusion(run, testTexts, testLengths, options.OcclusionExamples);
+
+        return new RunDiagnostics
+        {
+            Profile = profile, Split = splitSummary, Leakage = leakage, Coverage = coverage, TestLengths = testLengths, ByLength = byLength,
+            Calibration = calibration, CalibrationEqualMass = equalMass, Temperature = temperature, CalibrationAfterScaling = after,
+            Embedding = embedding, TestRepresentations = representations, Errors = errors, Occlusions = occlusions, Options = options,
+        };
+    }
+
+    /// <summary>The surest mistake (what drove the wrong call) and the surest correct call among rows of at least median length.</summary>
+    static IReadOnlyList<OcclusionCase> ExplainByOcclusion(RunOutcome run, string[] texts, int[] lengths, int wanted)
+    {
+        var cases = new List<OcclusionCase>();
+        if (wanted == 0) return cases;
+        var probs = run.TestProbabilities;
+        int[] labels = run.Test.Labels, predicted = run.TestMetrics.Predicted;
+        var usable = Enumerable.Range(0, run.Test.Count).Where(i => run.Test.Length(i) > 0).ToArray();
+        int? mistake = usable.Where(i => predicted[i] != labels[i]).OrderByDescending(i => probs[i][predicted[i]]).ThenBy(i => i).Select(i => (int?)i).FirstOrDefault();
+        double median = usable.Length == 0 ? 0 : usable.Select(i => (double)lengths[i]).Order().ElementAt(usable.Length / 2);
+        int? correct = usable.Where(i => predicted[i] == labels[i] && lengths[i] >= median).OrderByDescending(i => probs[i][predicted[i]]).ThenBy(i => i)
+            .Select(i => (int?)i).FirstOrDefault();
+        var picks = new List<(int Row, string Why)>();
+        if (mistake is int m) picks.Add((m, "the test row the model got wrong with the highest confidence"));
+        if (correct is int c) picks.Add((c, "a test row of at least median length that the model got right with the highest confidence"));
+        var scorer = ModelReadout.Scorer(run.Model);
+        foreach (var (row, why) in picks.Take(wanted))
+        {
+            int[] tokens = run.Test[row].ToArray();
+            var pieces = Pieces(run, texts[row], tokens);
+            var result = Occlusion.Compute(tokens, scorer, Vocabulary.UnknownId, predicted[row], pieces);
+            var names = run.Labels.Names;
+            cases.Add(new OcclusionCase(why, texts[row], names[labels[row]], names[predicted[row]], names[predicted[row]], pieces,
+                tokens.Select(t => t == Vocabulary.UnknownId).ToArray(), result));
+        }
+        return cases;
+    }
+
+    /// <summary>
+    /// What each position held: the original piece when nothing was cut (so an unknown token still shows its
+    /// text), otherwise the vocabulary's token for the id, since cutting makes positions and pieces disagree.
+    /// </summary>
+    static string[] Pieces(RunOutcome run, string text, int[] tokens)
+    {
+        var pieces = run.Tokenizer.Split(text);
+        return pieces.Count == tokens.Length ? pieces.ToArray() : tokens.Select(run.Vocabulary.Token).ToArray();
+    }
+}

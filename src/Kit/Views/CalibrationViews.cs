@@ -1,0 +1,169 @@
+using System.Globalization;
+using System.Text.Json.Nodes;
+using Kit.Diagnostics;
+
+namespace Kit.Views;
+
+/// <summary>
+/// Reliability diagrams: observed frequency against mean confidence per bin, the diagonal of perfect
+/// calibration, and the rows per bin underneath, with ECE in the title.
+/// </summary>
+public static class CalibrationViews
+{
+    /// <summary>Top-label reliability (confidence of the predicted class against the share predicted correctly).</summary>
+    public static ChartView Reliability(CalibrationReport r, string split = "test")
+    {
+        string scheme = SchemeName(r.Scheme);
+        var traces = new JsonArray
+        {
+            Figure.Diagonal(),
+            Gaps(r.Bins, "x", "y", Theme.Bad),
+            Points(r.Bins, "observed accuracy", Theme.Colour(0), "x", "y", "confidence"),
+            new JsonObject
+            {
+                ["type"] = "bar", ["name"] = "rows per bin", ["x"] = Figure.Numbers(r.Bins.Select(Centre)), ["y"] = Figure.Numbers(r.Bins.Select(b => b.Count)),
+                ["width"] = Figure.Numbers(r.Bins.Select(b => b.Count == 0 ? double.NaN : Math.Max(0.004, (b.Hi - b.Lo) * 0.9))),
+                ["xaxis"] = "x", ["yaxis"] = "y2", ["marker"] = new JsonObject { ["color"] = Theme.Colour(0), ["opacity"] = 0.35 },
+                ["hovertemplate"] = "confidence %{x:.2f}<br>%{y} rows<extra></extra>",
+            },
+        };
+        string interval = double.IsNaN(r.EceInterval.Low) ? "" : $" (95 % bootstrap {Html.Pct(r.EceInterval.Low)} – {Html.Pct(r.EceInterval.High)})";
+        var layout = Theme.Layout(
+            $"Top-label reliability, {scheme} bins ({split} split) — ECE {Html.Pct(r.Ece)}{interval}, MCE {Html.Pct(r.Mce)}; points below the diagonal are overconfident",
+            "confidence of the predicted class (probability)", "observed accuracy (fraction correct)", height: 520);
+        layout["yaxis"]!["domain"] = Figure.Pair(0.3, 1);
+        layout["yaxis"]!["range"] = Figure.Pair(0, 1.02);
+        layout["xaxis"]!["range"] = Figure.Pair(0, 1.0);
+        layout["xaxis"]!["anchor"] = "y2";
+        var y2 = Theme.Axis("rows (count)");
+        y2["domain"] = Figure.Pair(0, 0.2);
+        y2["rangemode"] = "tozero";
+        layout["yaxis2"] = y2;
+        return new ChartView($"Reliability ({scheme})", traces, layout)
+        {
+            Caption = $"{r.Bins.Count} {scheme} bins. Red segments: each bin's gap between confidence and accuracy; ECE is their row-weighted mean, MCE the largest.",
+        };
+    }
+
+    /// <summary>One small reliability panel per class: p(class) against how often the class is the true one.</summary>
+    public static ChartView PerClass(CalibrationReport r, string split = "test")
+    {
+        int k = r.PerClass.Count;
+        int cols = Math.Min(4, k), rows = (k + cols - 1) / cols;
+        const double gapX = 0.06, gapY = 0.11;
+        double w = (1 - gapX * (cols - 1)) / cols, h = (1 - gapY * (rows - 1)) / rows;
+        var traces = new JsonArray();
+        var layout = Theme.Layout($"Per-class reliability ({split} split) — classwise ECE {Html.Pct(r.ClasswiseEce)}; each panel's title gives that class's ECE",
+            "", "", height: 110 + 250 * rows);
+        layout.Remove("xaxis");
+        layout.Remove("yaxis");
+        layout["showlegend"] = false;
+        layout["margin"]!["t"] = 96;
+        var notes = new JsonArray();
+        for (int c = 0; c < k; c++)
+        {
+            int row = c / cols, col = c % cols;
+            string suffix = c == 0 ? "" : (c + 1).ToString(CultureInfo.InvariantCulture);
+            string xa = "x" + suffix, ya = "y" + suffix;
+            double x0 = col * (w + gapX), y1 = 1 - row * (h + gapY);
+            var xAxis = Theme.Axis("predicted p (probability)");
+            xAxis["domain"] = Figure.Pair(x0, x0 + w);
+            xAxis["range"] = Figure.Pair(0, 1);
+            xAxis["anchor"] = ya;
+            xAxis["title"]!["font"] = new JsonObject { ["size"] = 10 };
+            var yAxis = Theme.Axis("observed frequency (fraction)");
+            yAxis["domain"] = Figure.Pair(y1 - h, y1);
+            yAxis["range"] = Figure.Pair(0, 1.02);
+            yAxis["anchor"] = xa;
+            yAxis["title"]!["font"] = new JsonObject { ["size"] = 10 };
+            layout["xaxis" + suffix] = xAxis;
+            layout["yaxis" + suffix] = yAxis;
+            var cls = r.PerClass[c];
+            traces.Add(Figure.Diagonal(xa, ya, showLegend: false));
+            traces.Add(Gaps(cls.Bins, xa, ya, Theme.Bad));
+            traces.Add(Points(cls.Bins, cls.Class, Theme.Colour(c), xa, ya, "p(" + cls.Class + ")"));
+            notes.Add(new JsonObject
+            {
+                ["text"] = $"<b>{Figure.Text(cls.Class)}</b> · ECE {Html.Pct(cls.Ece)}", ["showarrow"] = false,
+                ["xref"] = "paper", ["yref"] = "paper", ["x"] = x0, ["y"] = y1 + 0.01, ["xanchor"] = "left", ["yanchor"] = "bottom",
+                ["font"] = new JsonObject { ["size"] = 12 },
+            });
+        }
+        layout["annotations"] = notes;
+        return new ChartView("Per-class reliability", traces, layout)
+        {
+            Caption = "For each class, rows are binned by the probability given to that class; the y value is the share of the bin whose true class it is.",
+        };
+    }
+
+    /// <summary>Before and after dividing the logits by the temperature fitted on validation, on the same test rows.</summary>
+    public static StackView Temperature(TemperatureReport t, CalibrationReport before, CalibrationReport after, string split = "test")
+    {
+        var traces = new JsonArray
+        {
+            Figure.Diagonal(),
+            Points(before.Bins, "before scaling (T = 1)", Theme.Colour(1), "x", "y", "confidence", dash: "dot"),
+            Points(after.Bins, $"after scaling (T = {Html.Num(t.Temperature, 2)})", Theme.Colour(0), "x", "y", "confidence"),
+        };
+        string bound = t.AtSearchBound ? " (at the search bound: the fit did not settle)" : "";
+        var layout = Theme.Layout(
+            $"Temperature scaling, fitted on validation: T = {Html.Num(t.Temperature, 2)}{bound} — {split} ECE {Html.Pct(t.TestEceBefore)} → {Html.Pct(t.TestEceAfter)}, NLL {Html.Num(t.TestNllBefore)} → {Html.Num(t.TestNllAfter)} nats",
+            "confidence of the predicted class (probability)", "observed accuracy (fraction correct)", height: 460);
+        layout["xaxis"]!["range"] = Figure.Pair(0, 1);
+        layout["yaxis"]!["range"] = Figure.Pair(0, 1.02);
+        var chart = new ChartView("Temperature scaling", traces, layout)
+        {
+            Caption = $"T > 1 softens overconfident scores, T < 1 sharpens underconfident ones. Accuracy is unchanged ({Html.Pct(t.TestAccuracy)}): dividing logits by T keeps their order.",
+        };
+        string table = Html.Table(new[] { "measure", "before", "after" }, new[]
+        {
+            new[] { "validation NLL (nats)", Html.Num(t.ValidationNllBefore), Html.Num(t.ValidationNllAfter) },
+            new[] { $"{split} NLL (nats)", Html.Num(t.TestNllBefore), Html.Num(t.TestNllAfter) },
+            new[] { $"{split} ECE ({t.Bins} equal-width bins)", Html.Pct(t.TestEceBefore), Html.Pct(t.TestEceAfter) },
+            new[] { $"{split} classwise ECE", Html.Pct(before.ClasswiseEce), Html.Pct(after.ClasswiseEce) },
+        }, "Before and after temperature scaling");
+        return new StackView("Temperature scaling", new IView[] { chart, new TextView("", table) });
+    }
+
+    static string SchemeName(BinningScheme s) => s == BinningScheme.EqualMass ? "equal-mass" : "equal-width";
+
+    static double Centre(ReliabilityBin b) => b.Count == 0 ? double.NaN : (b.Lo + b.Hi) / 2;
+
+    static JsonObject Points(IReadOnlyList<ReliabilityBin> bins, string name, string colour, string xa, string ya, string what, string dash = "solid")
+    {
+        int max = Math.Max(1, bins.Max(b => b.Count));
+        return new JsonObject
+        {
+            ["type"] = "scatter", ["mode"] = "lines+markers", ["name"] = Figure.Text(name), ["xaxis"] = xa, ["yaxis"] = ya,
+            ["x"] = Figure.Numbers(bins.Where(b => b.Count > 0).Select(b => b.MeanConfidence)),
+            ["y"] = Figure.Numbers(bins.Where(b => b.Count > 0).Select(b => b.Accuracy)),
+            ["customdata"] = Figure.Numbers(bins.Where(b => b.Count > 0).Select(b => b.Count)),
+            // Marker area follows the bin's share of rows, so a lone point in a near-empty bin looks as weak as it is.
+            ["marker"] = new JsonObject
+            {
+                ["color"] = colour, ["sizemode"] = "area", ["sizeref"] = max / 140.0, ["sizemin"] = 3,
+                ["size"] = Figure.Numbers(bins.Where(b => b.Count > 0).Select(b => b.Count)),
+            },
+            ["line"] = Figure.Line(colour, 1.5, dash),
+            ["hovertemplate"] = $"mean {Figure.Text(what)} %{{x:.3f}}<br>observed %{{y:.3f}}<br>%{{customdata}} rows<extra>{Figure.Text(name)}</extra>",
+        };
+    }
+
+    /// <summary>Vertical segments from each bin's point to the diagonal, as one trace (null breaks between segments).</summary>
+    static JsonObject Gaps(IReadOnlyList<ReliabilityBin> bins, string xa, string ya, string colour)
+    {
+        var x = new List<double>();
+        var y = new List<double>();
+        foreach (var b in bins.Where(b => b.Count > 0))
+        {
+            x.AddRange(new[] { b.MeanConfidence, b.MeanConfidence, double.NaN });
+            y.AddRange(new[] { b.MeanConfidence, b.Accuracy, double.NaN });
+        }
+        return new JsonObject
+        {
+            ["type"] = "scatter", ["mode"] = "lines", ["name"] = "gap to the diagonal", ["xaxis"] = xa, ["yaxis"] = ya,
+            ["x"] = Figure.Numbers(x), ["y"] = Figure.Numbers(y), ["connectgaps"] = false, ["hoverinfo"] = "skip", ["showlegend"] = xa == "x",
+            ["line"] = Figure.Line(colour, 2),
+        };
+    }
+}

@@ -1,0 +1,4 @@
+namespace Kit.Views;
+
+/// <summary>Picture formats a chart can be exported to through the browser (HTML needs none).</summary>
+public enum ChartImageFormat { Svg, Png }

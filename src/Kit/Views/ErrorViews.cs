@@ -1,0 +1,30 @@
+using System.Text;
+using Kit.Diagnostics;
+
+namespace Kit.Views;
+
+/// <summary>Examples to read by hand: the surest mistakes, the highest losses and the most frequent confusions.</summary>
+public static class ErrorViews
+{
+    public static TextView Tables(ErrorAnalysis e, string split = "test")
+    {
+        var sb = new StringBuilder();
+        sb.Append($"<p>{Html.Count(e.Mistakes)} of {Html.Count(e.Count)} {Html.Escape(split)} rows are predicted wrongly ({Html.Pct(e.Count == 0 ? double.NaN : (double)e.Mistakes / e.Count)}).</p>");
+        sb.Append(Examples(e.ConfidentMistakes, $"Most confident mistakes — wrong, and sure of it (top {e.ConfidentMistakes.Count})"));
+        sb.Append(Examples(e.HighestLoss, $"Highest loss — the rows that pull the log loss up, right or wrong (top {e.HighestLoss.Count})"));
+        sb.Append(Html.Table(new[] { "true class", "predicted as", "rows", "share of the true class", "surest examples" },
+            e.ConfusedPairs.Select(p => (IReadOnlyList<string>)new[]
+            {
+                p.TrueClass, p.PredictedClass, Html.Count(p.Count), Html.Pct(p.ShareOfTrueClass), string.Join("  ·  ", p.Examples.Select(x => x.Text)),
+            }), "Most frequent confusions", numericRight: true));
+        return new TextView("Error analysis", sb.ToString());
+    }
+
+    static string Examples(IReadOnlyList<ErrorExample> rows, string caption) =>
+        Html.Table(new[] { "#", "text", "true class", "predicted", "confidence", "p(true class)", "loss (nats)" },
+            rows.Select(r => (IReadOnlyList<string>)new[]
+            {
+                r.Index.ToString(System.Globalization.CultureInfo.InvariantCulture), r.Text, r.TrueClass, r.PredictedClass,
+                Html.Num(r.Confidence), Html.Num(r.TrueClassProbability), Html.Num(r.Loss, 2),
+            }), caption);
+}

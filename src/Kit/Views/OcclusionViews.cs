@@ -1,0 +1,56 @@
+using System.Globalization;
+using System.Text;
+using Kit.Diagnostics;
+
+namespace Kit.Views;
+
+/// <summary>
+/// Occlusion attribution drawn on the text itself: each token's background shows how much the target class's
+/// probability fell when that token was replaced by the unknown token (blue = it supported the class, brick =
+/// it argued against it; stronger colour = larger change).
+/// </summary>
+public static class OcclusionViews
+{
+    static readonly CultureInfo Inv = CultureInfo.InvariantCulture;
+
+    /// <param name="pieces">What each position held, as text (one per position).</param>
+    /// <param name="unknown">Positions whose token was not in the vocabulary (drawn underlined), or null.</param>
+    public static TextView Tokens(OcclusionResult r, IReadOnlyList<string> pieces, string targetClass, string? heading = null,
+        IReadOnlyList<bool>? unknown = null, string? note = null)
+    {
+        if (pieces.Count != r.Positions.Count)
+            throw new ArgumentException($"{pieces.Count} pieces for {r.Positions.Count} occluded positions; give one per position.", nameof(pieces));
+        double scale = r.Positions.Select(p => Math.Abs(p.Drop)).DefaultIfEmpty(0).Max();
+        var sb = new StringBuilder();
+        if (note is not null) sb.Append("<p>").Append(Html.Escape(note)).Append("</p>");
+        sb.Append("<p class=\"kit-occlusion\">");
+        for (int i = 0; i < pieces.Count; i++)
+        {
+            var p = r.Positions[i];
+            string tip = string.Create(Inv, $"position {i}: p({targetClass}) {r.BaseProbability:F3} → {p.OccludedProbability:F3} when hidden (change {-p.Drop:+0.000;-0.000;0})");
+            string cls = unknown is not null && i < unknown.Count && unknown[i] ? "kit-token kit-unknown" : "kit-token";
+            sb.Append($"<span class=\"{cls}\" style=\"background:{Colour(p.Drop, scale)}\" title=\"{Html.Escape(tip)}\">")
+              .Append(Html.Escape(ProjectionViews.Visible(pieces[i]))).Append("</span>");
+        }
+        sb.Append("</p>");
+        sb.Append("<p class=\"kit-legend\"><span class=\"kit-token\" style=\"background:").Append(Colour(scale, scale)).Append("\">supports</span> ")
+          .Append("<span class=\"kit-token\" style=\"background:").Append(Colour(-scale, scale)).Append("\">argues against</span> ")
+          .Append(Html.Escape(string.Create(Inv, $"the class {targetClass}; the strongest colour is a change of {scale:F3} in probability (base p = {r.BaseProbability:F3}).")))
+          .Append(unknown is not null && unknown.Any(u => u) ? " Underlined tokens were unknown to the vocabulary." : "").Append("</p>");
+        var top = r.Positions.OrderByDescending(p => Math.Abs(p.Drop)).ThenBy(p => p.Position).Take(5).ToArray();
+        sb.Append(Html.Table(new[] { "position", "token", $"p({targetClass}) when hidden", "drop" },
+            top.Select(p => (IReadOnlyList<string>)new[]
+            {
+                p.Position.ToString(Inv), ProjectionViews.Visible(pieces[p.Position]), Html.Num(p.OccludedProbability), Html.Num(p.Drop),
+            }), "Positions that matter most"));
+        return new TextView(heading ?? $"Occlusion for class {targetClass}", sb.ToString());
+    }
+
+    /// <summary>Blue for a positive drop, brick for a negative one, alpha by |drop| relative to the largest.</summary>
+    internal static string Colour(double drop, double scale)
+    {
+        double a = scale <= 0 || !double.IsFinite(drop) ? 0 : Math.Min(1, Math.Abs(drop) / scale) * 0.6;
+        string rgb = drop >= 0 ? "46,94,140" : "168,68,58";
+        return string.Create(Inv, $"rgba({rgb},{a:F3})");
+    }
+}
