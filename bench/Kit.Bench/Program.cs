@@ -11,8 +11,14 @@ public static class Program
 {
     public static int Main(string[] args)
     {
-        var wanted = args.Where(a => !a.StartsWith("--", StringComparison.Ordinal)).ToHashSet();
-        string docs = args.SkipWhile(a => a != "--docs").Skip(1).FirstOrDefault() ?? FindDocs();
+        string? docsArg = null;
+        var wanted = new HashSet<string>();
+        for (int i = 0; i < args.Length; i++)
+        {
+            if (args[i] == "--docs" && i + 1 < args.Length) docsArg = args[++i];
+            else if (!args[i].StartsWith("--", StringComparison.Ordinal)) wanted.Add(args[i]);
+        }
+        string docs = docsArg ?? FindDocs();
         var measures = MeasureCatalog.All().Where(m => wanted.Count == 0 || m.Ids.Any(wanted.Contains)).ToList();
         var unknown = wanted.Where(w => !MeasureCatalog.All().Any(m => m.Ids.Contains(w))).ToList();
         if (unknown.Count > 0)
