@@ -15,7 +15,7 @@ public sealed class CsvLoadMeasure : IMeasure
 {
     public const int Rows = 1_000_000;
     public IReadOnlyList<string> Ids { get; } =
-        ["csv-1m-load-seconds", "csv-1m-load-peak-mb", "csv-1m-table-mb", "csv-1m-load-vs-naive-split", "csv-1m-encode-seconds"];
+        ["csv-1m-load-seconds", "csv-1m-load-warm-seconds", "csv-1m-load-peak-mb", "csv-1m-table-mb", "csv-1m-load-vs-naive-split", "csv-1m-encode-seconds"];
 
     public IEnumerable<Figure> Run()
     {
@@ -60,14 +60,16 @@ public sealed class CsvLoadMeasure : IMeasure
                 GC.KeepAlive(TableReader.Read(path, spec));
                 kit.Add(clock.Elapsed.TotalSeconds);
             }
-            yield return new Figure("csv-1m-load-seconds", kit.Min(), "s", "≤ 10 s",
-                $"TableReader.Read, best of {kit.Count} (first {first:F2} s); {file}");
+            yield return new Figure("csv-1m-load-seconds", first, "s", "≤ 10 s",
+                $"first TableReader.Read in the process (cold: JIT, heap growth), as a user meets it; {file}");
+            yield return new Figure("csv-1m-load-warm-seconds", kit.Skip(1).Min(), "s", "orientation",
+                $"best of {kit.Count - 1} later TableReader.Read calls of the same file in the same process");
             yield return new Figure("csv-1m-load-peak-mb", peakMb, "MB", "≤ 1000 MB",
                 "peak resident set (VmHWM, reset via /proc/self/clear_refs before the first load) of the whole bench process");
             yield return new Figure("csv-1m-table-mb", tableMb, "MB", "orientation",
                 "managed heap kept by the loaded LabelledTable (GC.GetTotalMemory after full collections)");
-            yield return new Figure("csv-1m-load-vs-naive-split", kit.Min() / naive.Min(), "×", "orientation (cost of RFC 4180 + UTF-8 checks)",
-                "best TableReader.Read over best File.ReadAllLines + string.Split(',') of the same file, interleaved in one run");
+            yield return new Figure("csv-1m-load-vs-naive-split", kit.Skip(1).Min() / naive.Min(), "×", "orientation (cost of RFC 4180 + UTF-8 checks)",
+                "best later TableReader.Read over best File.ReadAllLines + string.Split(',') of the same file, interleaved in one run");
             yield return new Figure("csv-1m-encode-seconds", encode, "s", "orientation",
                 "label ids + character vocabulary + Encoder.Encode (max length 64) of all 1M rows");
         }

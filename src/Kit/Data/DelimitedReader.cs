@@ -1,3 +1,5 @@
+using System.Runtime.CompilerServices;
+
 namespace Kit.Data;
 
 /// <summary>
@@ -30,6 +32,8 @@ internal sealed class DelimitedReader
         return reader.ReadAll(spec, policy);
     }
 
+    // Hot loops of a one-shot read: compiled fully optimised at once, since tiered start-up code would run most of a big file.
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     LabelledTable ReadAll(ColumnSpec spec, RowPolicy policy)
     {
         if (_s.Length > 0 && (_s[0] == '\n' || _s[0] == '\r'))
@@ -101,6 +105,7 @@ internal sealed class DelimitedReader
     /// malformed record, having skipped to the end of its physical line so reading can go on. An unterminated
     /// quote is thrown: it swallows the rest of the file, so nothing after it can be trusted.
     /// </summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     (string? Problem, int? Column) NextRecord()
     {
         _fields.Clear();
