@@ -98,3 +98,21 @@ public class TokenizerTests
         Assert.Equal(Encoding.UTF8.GetBytes("\U0010FFFF"), ByteTokenizer.Bytes("\U0010FFFF"));
     }
 }
+
+public class CharacterTokenizerPathTests
+{
+    [Fact]
+    public void AsciiFastPathAgreesWithTextElementSegmentation()
+    {
+        // The ASCII shortcut must give what StringInfo's UAX #29 segmentation gives, CR LF included.
+        var t = new CharacterTokenizer();
+        foreach (var s in new[] { "abc-01.x", "a\tb\nc", "a\r\nb", "\u007F\u0001z", "mixé" })
+        {
+            var expected = new List<string>();
+            var e = System.Globalization.StringInfo.GetTextElementEnumerator(s.Normalize(System.Text.NormalizationForm.FormC));
+            while (e.MoveNext()) expected.Add((string)e.Current);
+            Assert.Equal(expected, t.Split(s));
+        }
+        Assert.Equal(["a", "\r\n", "b"], t.Split("a\r\nb"));
+    }
+}
