@@ -211,6 +211,20 @@ public class BadInputTests
         Assert.StartsWith("/nonexistent/none.csv:0: cannot read file:", e.Message);
     }
 
+    [Fact]
+    public void FileTooLargeIsRefusedBeforeReading()
+    {
+        var path = Path.Combine(Path.GetTempPath(), $"kit-big-{Guid.NewGuid():N}.csv");
+        try
+        {
+            // A sparse file: its length is over the limit, but nothing is written or read.
+            using (var f = File.Create(path)) f.SetLength(TableReader.MaxFileBytes + 1);
+            var e = Assert.Throws<DataError>(() => TableReader.Read(path, new ColumnSpec()));
+            Assert.Equal($"{path}:0: file too large (1,000,000,001 bytes; this reader holds the whole file in memory, up to 1,000,000,000 bytes)", e.Message);
+        }
+        finally { File.Delete(path); }
+    }
+
     // JSON Lines (jsonlines.org): one valid JSON value per line, UTF-8.
     [Fact]
     public void JsonLinesProblems()

@@ -225,3 +225,54 @@ public class SplitterTests
         Assert.True(chi < 27.88, $"chi-square {chi}");
     }
 }
+
+public class GroupStratificationTests
+{
+    /// <summary>Mean over folds and classes of |fold count − class count / k|.</summary>
+    static double Deviation(int[] labels, int[] foldOf, int k)
+    {
+        int classes = labels.Max() + 1;
+        var total = new double[classes];
+        var counts = new double[k, classes];
+        for (int i = 0; i < labels.Length; i++) { total[labels[i]]++; counts[foldOf[i], labels[i]]++; }
+        double sum = 0;
+        for (int f = 0; f < k; f++)
+            for (int c = 0; c < classes; c++) sum += Math.Abs(counts[f, c] - total[c] / k);
+        return sum / (k * classes);
+    }
+
+    [Fact]
+    public void GroupKFoldIsFarMoreStratifiedThanRandomWholeGroups()
+    {
+        // Reference point: assigning whole groups to folds uniformly at random. The greedy assignment should
+        // cut the class imbalance across folds by at least half on every one of these inputs.
+        for (ulong seed = 1; seed <= 20; seed++)
+        {
+            var rng = new SplitMix64(seed);
+            int groupsCount = 60 + rng.NextInt(60);
+            var groupClassBias = Enumerable.Range(0, groupsCount).Select(_ => rng.NextInt(4)).ToArray();
+            var groupIds = new List<int>();
+            var labels = new List<int>();
+            for (int g = 0; g < groupsCount; g++)
+            {
+                int size = 1 + rng.NextInt(8);
+                for (int r = 0; r < size; r++)
+                {
+                    groupIds.Add(g);
+                    labels.Add(rng.NextInt(4) == 0 ? rng.NextInt(4) : groupClassBias[g]);
+                }
+            }
+            var lab = labels.ToArray();
+            var groups = groupIds.Select(g => $"g{g}").ToArray();
+            const int k = 5;
+            var folds = Splitter.GroupKFold(lab, groups, k, seed);
+            var foldOf = new int[lab.Length];
+            for (int f = 0; f < k; f++) foreach (int r in folds[f].Test) foldOf[r] = f;
+
+            var randomFold = Enumerable.Range(0, groupsCount).Select(_ => rng.NextInt(k)).ToArray();
+            var randomOf = groupIds.Select(g => randomFold[g]).ToArray();
+            double ours = Deviation(lab, foldOf, k), random = Deviation(lab, randomOf, k);
+            Assert.True(ours <= random / 2, $"seed {seed}: greedy {ours:F2} vs random groups {random:F2}");
+        }
+    }
+}
