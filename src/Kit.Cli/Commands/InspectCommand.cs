@@ -31,7 +31,7 @@ internal static class InspectCommand
         command.SetAction(parse => Run(new Settings(parse.GetValue(data)!,
             new ColumnSpec(parse.GetValue(text)!, parse.GetValue(label)!, parse.GetValue(group), parse.GetValue(split)),
             parse.GetValue(tokenizer)!, parse.GetValue(skip) ? RowPolicy.Skip : RowPolicy.Refuse, parse.GetValue(seed)),
-            Console.Out, Console.Error));
+            parse.InvocationConfiguration.Output, parse.InvocationConfiguration.Error));
         return command;
     }
 

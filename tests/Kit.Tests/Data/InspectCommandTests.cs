@@ -60,15 +60,12 @@ public sealed class InspectCommandTests : IDisposable
     {
         var path = Path.Combine(_dir, "cli.csv");
         File.WriteAllText(path, "t,l\nx,1\n");
-        var stderr = Console.Error;
+        var output = new StringWriter();
         var capture = new StringWriter();
-        Console.SetError(capture);
-        try
-        {
-            int code = Kit.Cli.Program.Main(["inspect", path, "--text", "t", "--label", "missing"]);
-            Assert.Equal(InspectCommand.BadInput, code);
-        }
-        finally { Console.SetError(stderr); }
+        int code = Kit.Cli.Program.BuildRoot().Parse(["inspect", path, "--text", "t", "--label", "missing"])
+            .Invoke(new System.CommandLine.InvocationConfiguration { Output = output, Error = capture });
+        Assert.Equal(InspectCommand.BadInput, code);
+        Assert.Equal("", output.ToString());
         Assert.Contains($"{path}:1: missing column 'missing' (header has: 't', 'l')", capture.ToString());
     }
 }

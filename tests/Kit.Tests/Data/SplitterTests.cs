@@ -178,6 +178,8 @@ public class SplitterTests
         Assert.Equal([0, 3], split.Train);
         Assert.Equal([2], split.Validation);
         Assert.Equal([1], split.Test);
+        var df = split.ToDataFrame();
+        Assert.Equal(["train", "test", "validation", "train"], df.Columns["part"].Cast<string>());
     }
 
     [Fact]

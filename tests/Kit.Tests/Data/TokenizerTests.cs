@@ -54,7 +54,7 @@ public class TokenizerTests
     [Fact]
     public void WordTokenizerSplitsOnSpaceAndPunctuation()
     {
-        Assert.Equal(["don", "'", "t", "stop", "!", "v2", "_x", "3.5"[..1], ".", "5"], new WordTokenizer().Split("Don't  STOP!\tv2 _x 3.5"));
+        Assert.Equal(["don", "'", "t", "stop", "!", "v2", "_x", "3", ".", "5"], new WordTokenizer().Split("Don't  STOP!\tv2 _x 3.5"));
         Assert.Equal(["Relay", "K1", "tripped"], new WordTokenizer(lowerCase: false).Split(" Relay K1\ntripped "));
         Assert.Empty(new WordTokenizer().Split(" \t "));
         // A combining mark stays inside its word; the accented form is put in NFC.
