@@ -52,6 +52,8 @@ internal sealed class DelimitedReader
             int line = _line;
             if (_s[_pos] == '\n' || _s[_pos] == '\r')
             {
+                // Empty lines at the very end hold no data (editors often leave them); anywhere else they are a problem.
+                if (_s.AsSpan(_pos).IndexOfAnyExcept('\r', '\n') < 0) break;
                 SkipLineBreak();
                 rows.Problem(line, null, "blank line", "blank line (a record must have " + header.Length + " field(s))");
                 continue;

@@ -167,6 +167,16 @@ public class BadInputTests
         Assert.Equal("t.csv:3: blank line (a record must have 2 field(s))", Refused("t.csv", "text,label\nx,1\n\ny,2\n").Message);
     }
 
+    [Theory]
+    [InlineData("t.csv", "text,label\nx,1\n\n\r\n")]
+    [InlineData("t.jsonl", "{\"text\":\"x\",\"label\":1}\n\n  \n")]
+    public void EmptyLinesAtTheEndAreNotRows(string name, string text)
+    {
+        var t = Parse(name, text);
+        Assert.Equal(["x"], t.Texts);
+        Assert.True(t.SkipReport.IsEmpty);
+    }
+
     [Fact]
     public void SkipPolicyDropsRowsAndSaysWhy()
     {
