@@ -5,5 +5,6 @@ public static class MeasureCatalog
 {
     public static IReadOnlyList<IMeasure> All() => new IMeasure[]
     {
+        new Data.CsvLoadMeasure(),
     };
 }

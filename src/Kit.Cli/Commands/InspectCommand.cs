@@ -31,7 +31,7 @@ internal static class InspectCommand
         command.SetAction(parse => Run(new Settings(parse.GetValue(data)!,
             new ColumnSpec(parse.GetValue(text)!, parse.GetValue(label)!, parse.GetValue(group), parse.GetValue(split)),
             parse.GetValue(tokenizer)!, parse.GetValue(skip) ? RowPolicy.Skip : RowPolicy.Refuse, parse.GetValue(seed)),
-            Console.Out, Console.Error));
+            parse.InvocationConfiguration.Output, parse.InvocationConfiguration.Error));
         return command;
     }
 
@@ -93,9 +93,9 @@ internal static class InspectCommand
         Table(o, new[] { "part", "rows", "median len" }.Concat(map.Names).ToArray(),
             split.Summary.Parts.Select(p => new[] { p.Part, N(p.Rows), F(p.Lengths.Median) }
                 .Concat(p.ClassCounts.Select((c, k) => $"{c} ({P(p.Proportions[k])})")).ToArray()));
-        var vocab = Vocabulary.Build(split.Train.Select(r => tokenizer.Split(table.Texts[r])));
+        var vocab = Vocabulary.BuildFromTrain(table.Texts, split, tokenizer);
         o.WriteLine($"Vocabulary from train: {vocab.Count} ids; unknown rate " + string.Join(", ",
-            Enumerable.Range(0, 3).Select(p => $"{Split.PartNames[p]} {P(vocab.Coverage(split.Rows(p).Select(r => tokenizer.Split(table.Texts[r]))).UnknownRate)}")));
+            vocab.CoverageByPart(table.Texts, split, tokenizer).Select(c => $"{c.Part} {P(c.UnknownRate)} ({c.UnknownTokens} of {c.Tokens})")));
         o.WriteLine();
 
         var audit = LeakageAudit.Run(table, split);

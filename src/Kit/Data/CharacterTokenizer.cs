@@ -21,6 +21,13 @@ public sealed class CharacterTokenizer : ITokenizer
     public IReadOnlyList<string> Split(string text)
     {
         if (FoldCase) text = text.ToLowerInvariant();
+        // ASCII is already NFC and one text element per char, except CR LF, which is one element (UAX #29, GB3).
+        if (!text.AsSpan().ContainsAnyExceptInRange('\0', '\x7F') && !text.Contains('\r'))
+        {
+            var plain = new string[text.Length];
+            for (int i = 0; i < plain.Length; i++) plain[i] = Ascii[text[i]];
+            return plain;
+        }
         if (!text.IsNormalized(NormalizationForm.FormC)) text = text.Normalize(NormalizationForm.FormC);
         var tokens = new List<string>(text.Length);
         var span = text.AsSpan();

@@ -1,3 +1,5 @@
+using System.Runtime.CompilerServices;
+
 namespace Kit.Data;
 
 /// <summary>
@@ -30,6 +32,8 @@ internal sealed class DelimitedReader
         return reader.ReadAll(spec, policy);
     }
 
+    // Hot loops of a one-shot read: compiled fully optimised at once, since tiered start-up code would run most of a big file.
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     LabelledTable ReadAll(ColumnSpec spec, RowPolicy policy)
     {
         if (_s.Length > 0 && (_s[0] == '\n' || _s[0] == '\r'))
@@ -48,6 +52,8 @@ internal sealed class DelimitedReader
             int line = _line;
             if (_s[_pos] == '\n' || _s[_pos] == '\r')
             {
+                // Empty lines at the very end hold no data (editors often leave them); anywhere else they are a problem.
+                if (_s.AsSpan(_pos).IndexOfAnyExcept('\r', '\n') < 0) break;
                 SkipLineBreak();
                 rows.Problem(line, null, "blank line", "blank line (a record must have " + header.Length + " field(s))");
                 continue;
@@ -101,6 +107,7 @@ internal sealed class DelimitedReader
     /// malformed record, having skipped to the end of its physical line so reading can go on. An unterminated
     /// quote is thrown: it swallows the rest of the file, so nothing after it can be trusted.
     /// </summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     (string? Problem, int? Column) NextRecord()
     {
         _fields.Clear();

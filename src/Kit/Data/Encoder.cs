@@ -3,6 +3,11 @@ namespace Kit.Data;
 /// <summary>Texts to an <see cref="EncodedSet"/>: tokenize, look up ids, cut to the maximum length by a stated policy.</summary>
 public static class Encoder
 {
+    /// <summary>A whole table, labels as ids under <paramref name="labels"/> (e.g. the training table's map, so ids agree across sets).</summary>
+    public static (EncodedSet Set, TruncationReport Report) Encode(LabelledTable table, LabelMap labels, ITokenizer tokenizer,
+        Vocabulary vocab, int maxLength, TruncationPolicy policy) =>
+        Encode(table.Texts, table.LabelIds(labels), tokenizer, vocab, maxLength, policy);
+
     public static (EncodedSet Set, TruncationReport Report) Encode(IReadOnlyList<string> texts, int[] labels, ITokenizer tokenizer,
         Vocabulary vocab, int maxLength, TruncationPolicy policy, int[]? sourceRows = null)
     {

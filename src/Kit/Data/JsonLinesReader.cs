@@ -6,7 +6,7 @@ namespace Kit.Data;
 /// <summary>
 /// JSON Lines: one JSON object per line (LF or CRLF). The text field must be a JSON string; label, group and
 /// split may also be numbers or booleans (taken as their JSON text). A blank line inside the file is a problem
-/// like any malformed row; a final line break is not.
+/// like any malformed row; blank lines at the very end are not rows and are ignored.
 /// </summary>
 internal static class JsonLinesReader
 {
@@ -25,7 +25,7 @@ internal static class JsonLinesReader
             pos = next;
             if (content.IsWhiteSpace())
             {
-                if (pos >= text.Length && line > 1) break;
+                if (line > 1 && text.AsSpan(pos).IsWhiteSpace()) break;
                 rows.Problem(line, null, "blank line", "blank line (every line must hold one JSON object)");
                 continue;
             }

@@ -1,3 +1,5 @@
+using System.Runtime.CompilerServices;
+
 namespace Kit.Data;
 
 /// <summary>
@@ -40,6 +42,7 @@ internal sealed class RowCollector
     }
 
     /// <summary>Checks one row's values and keeps it, or reports why not. Columns are 1-based character columns, null when unknown.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     public void Add(int line, string text, ReadOnlySpan<char> label, ReadOnlySpan<char> group, ReadOnlySpan<char> split,
         int? textColumn = null, int? labelColumn = null, int? groupColumn = null, int? splitColumn = null)
     {

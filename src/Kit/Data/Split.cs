@@ -1,3 +1,5 @@
+using Microsoft.Data.Analysis;
+
 namespace Kit.Data;
 
 /// <summary>
@@ -18,6 +20,15 @@ public sealed record Split(int[] Train, int[] Validation, int[] Test, SplitSumma
         foreach (int r in Validation) part[r] = ValidationPart;
         foreach (int r in Test) part[r] = TestPart;
         return part;
+    }
+
+    /// <summary>One row per assigned table row: its index and part name.</summary>
+    public DataFrame ToDataFrame()
+    {
+        var rows = Train.Select(r => (r, p: TrainPart)).Concat(Validation.Select(r => (r, p: ValidationPart)))
+            .Concat(Test.Select(r => (r, p: TestPart))).OrderBy(x => x.r).ToList();
+        return new DataFrame(new Int32DataFrameColumn("row", rows.Select(x => x.r)),
+            new StringDataFrameColumn("part", rows.Select(x => PartNames[x.p])));
     }
 
     public int[] Rows(int part) => part switch

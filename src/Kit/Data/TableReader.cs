@@ -7,6 +7,7 @@ namespace Kit.Data;
 public static class TableReader
 {
     public static readonly IReadOnlyList<string> Extensions = [".csv", ".tsv", ".tab", ".jsonl", ".ndjson"];
+    public const long MaxFileBytes = 1_000_000_000;
 
     /// <summary>
     /// Reads the whole source or nothing: on any problem under <see cref="RowPolicy.Refuse"/> a <see cref="DataError"/>
@@ -20,6 +21,11 @@ public static class TableReader
         byte[] bytes;
         try
         {
+            // The whole file is decoded into one string, which .NET caps near 2^30 characters.
+            long size = new FileInfo(path).Length;
+            if (size > MaxFileBytes)
+                throw new DataError(path, 0, string.Create(CultureInfo.InvariantCulture,
+                    $"file too large ({size:N0} bytes; this reader holds the whole file in memory, up to {MaxFileBytes:N0} bytes)"));
             bytes = File.ReadAllBytes(path);
         }
         catch (Exception e) when (e is IOException or UnauthorizedAccessException)

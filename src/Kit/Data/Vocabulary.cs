@@ -57,6 +57,16 @@ public sealed class Vocabulary
         return new Vocabulary(tokens, tokenCounts, minCount, maxSize, "vocabulary");
     }
 
+    /// <summary>The vocabulary of a split's training rows only, so validation and test tokens stay unseen.</summary>
+    public static Vocabulary BuildFromTrain(IReadOnlyList<string> texts, Split split, ITokenizer tokenizer, int minCount = 1, int? maxSize = null) =>
+        Build(split.Train.Select(r => tokenizer.Split(texts[r])), minCount, maxSize);
+
+    /// <summary>Coverage of each part of a split (train, validation, test), as a vocabulary built on train meets them.</summary>
+    public IReadOnlyList<VocabularyCoverage> CoverageByPart(IReadOnlyList<string> texts, Split split, ITokenizer tokenizer) =>
+        Enumerable.Range(0, Split.PartNames.Count)
+            .Select(p => Coverage(split.Rows(p).Select(r => tokenizer.Split(texts[r])), Split.PartNames[p]))
+            .ToArray();
+
     /// <summary>A closed vocabulary in the given order after the reserved ids (e.g. the 256 bytes).</summary>
     public static Vocabulary FromTokens(IEnumerable<string> tokens)
     {

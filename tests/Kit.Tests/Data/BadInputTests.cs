@@ -167,6 +167,16 @@ public class BadInputTests
         Assert.Equal("t.csv:3: blank line (a record must have 2 field(s))", Refused("t.csv", "text,label\nx,1\n\ny,2\n").Message);
     }
 
+    [Theory]
+    [InlineData("t.csv", "text,label\nx,1\n\n\r\n")]
+    [InlineData("t.jsonl", "{\"text\":\"x\",\"label\":1}\n\n  \n")]
+    public void EmptyLinesAtTheEndAreNotRows(string name, string text)
+    {
+        var t = Parse(name, text);
+        Assert.Equal(["x"], t.Texts);
+        Assert.True(t.SkipReport.IsEmpty);
+    }
+
     [Fact]
     public void SkipPolicyDropsRowsAndSaysWhy()
     {
@@ -209,6 +219,20 @@ public class BadInputTests
     {
         var e = Assert.Throws<DataError>(() => TableReader.Read("/nonexistent/none.csv", new ColumnSpec()));
         Assert.StartsWith("/nonexistent/none.csv:0: cannot read file:", e.Message);
+    }
+
+    [Fact]
+    public void FileTooLargeIsRefusedBeforeReading()
+    {
+        var path = Path.Combine(Path.GetTempPath(), $"kit-big-{Guid.NewGuid():N}.csv");
+        try
+        {
+            // A sparse file: its length is over the limit, but nothing is written or read.
+            using (var f = File.Create(path)) f.SetLength(TableReader.MaxFileBytes + 1);
+            var e = Assert.Throws<DataError>(() => TableReader.Read(path, new ColumnSpec()));
+            Assert.Equal($"{path}:0: file too large (1,000,000,001 bytes; this reader holds the whole file in memory, up to 1,000,000,000 bytes)", e.Message);
+        }
+        finally { File.Delete(path); }
     }
 
     // JSON Lines (jsonlines.org): one valid JSON value per line, UTF-8.

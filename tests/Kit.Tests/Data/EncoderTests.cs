@@ -50,4 +50,15 @@ public class EncoderTests
         Assert.Equal([2, 0, 1], set.Labels);
         Assert.Equal([10, 11, 12], set.SourceRows);
     }
+
+    [Fact]
+    public void TablesEncodeWithAGivenLabelMap()
+    {
+        var table = new LabelledTable("mem", ["ab", "c"], ["zeta", "alpha"]);
+        var (set, _) = Encoder.Encode(table, new LabelMap(["alpha", "beta", "zeta"]), Chars, Letters, 8, TruncationPolicy.KeepHead);
+        Assert.Equal([2, 0], set.Labels);
+        Assert.Equal(Ids("abc"), set.Tokens);
+        var e = Assert.Throws<DataError>(() => Encoder.Encode(table, new LabelMap(["alpha"]), Chars, Letters, 8, TruncationPolicy.KeepHead));
+        Assert.Equal("mem:1: label 'zeta' is not one of the known classes (alpha)", e.Message);
+    }
 }

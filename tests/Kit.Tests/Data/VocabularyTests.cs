@@ -69,3 +69,19 @@ public class VocabularyTests
             "{\"format\":\"kit-vocabulary\",\"version\":1,\"tokens\":[\"a\"],\"counts\":[0]}")).Message);
     }
 }
+
+public class VocabularyFromSplitTests
+{
+    [Fact]
+    public void BuiltFromTrainRowsOnlyAndCoverageIsPerPart()
+    {
+        string[] texts = ["ab", "ab", "cd", "ax"];
+        var split = new Split([0, 1], [2], [3], SplitSummary.Of("fixed", 0, [0, 0, 0, 0], null));
+        var chars = new CharacterTokenizer();
+        var v = Vocabulary.BuildFromTrain(texts, split, chars);
+        Assert.Equal(["<pad>", "<unk>", "a", "b"], v.Tokens);
+        var cov = v.CoverageByPart(texts, split, chars);
+        Assert.Equal(["train", "validation", "test"], cov.Select(c => c.Part));
+        Assert.Equal([0.0, 1.0, 0.5], cov.Select(c => c.UnknownRate));
+    }
+}
