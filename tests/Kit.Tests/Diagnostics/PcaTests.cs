@@ -96,6 +96,21 @@ public class PcaTests
     }
 
     [Fact]
+    public void Fewer_rows_than_columns_leaves_the_surplus_components_at_zero_variance()
+    {
+        // Three points span a plane: two non-zero variances whatever the dimension.
+        double[][] x = [[1, 0, 2, 0, 5], [0, 1, 2, 1, 5], [2, 2, 2, 0, 4]];
+        var pca = Pca.Fit(x, 5);
+        Assert.Equal(1, pca.ExplainedVarianceRatio.Sum(), 12);
+        Assert.Equal(0, pca.ExplainedVariance[2], 12);
+        Assert.Equal(0, pca.ExplainedVariance[4], 12);
+        var back = pca.Transform(x);
+        // Distances are preserved by the full rotation.
+        double d01 = Math.Sqrt(x[0].Zip(x[1], (a, b) => (a - b) * (a - b)).Sum());
+        Assert.Equal(d01, Math.Sqrt(back[0].Zip(back[1], (a, b) => (a - b) * (a - b)).Sum()), 10);
+    }
+
+    [Fact]
     public void Bad_input_is_rejected()
     {
         Assert.Throws<ArgumentOutOfRangeException>(() => Pca.Fit([[1.0, 2.0], [3.0, 4.0]], 3));
