@@ -6,5 +6,7 @@ public static class MeasureCatalog
     public static IReadOnlyList<IMeasure> All() => new IMeasure[]
     {
         new Data.CsvLoadMeasure(),
+        new Diagnostics.TsneMeasure(),
+        new Diagnostics.PcaMeasure(),
     };
 }

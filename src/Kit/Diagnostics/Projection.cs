@@ -54,7 +54,11 @@ public sealed record Projection(ProjectionMethod Method, IReadOnlyList<Projectio
                 var pca = Pca.Fit(x, 2);
                 return (pca.Transform(x), pca.ExplainedVarianceRatio);
             case ProjectionMethod.Tsne:
-                return (Tsne.Run(x, tsne ?? new TsneOptions(), progress), []);
+                // Without explicit options a small vocabulary (a few dozen characters) would fail the default
+                // perplexity of 30, so the default shrinks to what the point count allows; explicit options are
+                // taken as given and rejected if impossible.
+                var options = tsne ?? new TsneOptions { Perplexity = Math.Min(30, Math.Max(1, (x.Length - 1) / 3)) };
+                return (Tsne.Run(x, options, progress), []);
             default:
                 throw new ArgumentOutOfRangeException(nameof(method), $"unknown projection method {method}.");
         }

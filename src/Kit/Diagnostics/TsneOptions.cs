@@ -25,7 +25,7 @@ public sealed record TsneOptions
     public double EarlyExaggeration { get; init; } = 12;
     public int ExaggerationIterations { get; init; } = 250;
     /// <summary>
-    /// Null picks max(N / EarlyExaggeration / 4, 50). Belkina et al. (2019, Nature Communications 10:5415)
+    /// Null picks max(N / EarlyExaggeration / 4, 50). Belkina et al. (2019, Nature Communications; from memory)
     /// recommend N / exaggeration for implementations whose gradient omits the factor 4 of the exact t-SNE
     /// gradient; ours keeps the 4, hence the extra division (the same rule scikit-learn's "auto" applies,
     /// from memory). A fixed 200 under-steps large N and makes the 1,000 iterations too few.

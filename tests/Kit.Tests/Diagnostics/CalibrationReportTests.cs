@@ -39,6 +39,11 @@ public class CalibrationReportTests
         Assert.Equal(0.18125, r.Ece, 12);
         Assert.Equal(0.9 - 2.0 / 3, r.Mce, 12);
         Assert.True(double.IsNaN(r.EceInterval.Low));
+        var frame = r.ToDataFrame();
+        Assert.Equal(5, frame.Rows.Count);
+        Assert.Equal(3, (int)frame["Count"][4]!);
+        Assert.Equal(2.0 / 3 - 0.9, (double)frame["Gap"][4]!, 12);
+        Assert.Equal(0.18125, (double)r.SummaryToDataFrame()["Value"][0]!, 12);
     }
 
     // Equal-mass (adaptive) bins, Nixon et al. (2019), with 4 bins of 2 in confidence order, by hand:

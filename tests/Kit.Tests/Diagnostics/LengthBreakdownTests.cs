@@ -76,6 +76,21 @@ public class LengthBreakdownTests
     }
 
     [Fact]
+    public void Any_numeric_attribute_can_be_binned()
+    {
+        int[] labels = [0, 1, 0, 1];
+        int[] predicted = [0, 1, 1, 1];
+        double[] digitShare = [0.0, 0.25, 0.5, 1.0];
+        var r = LengthBreakdown.ByValue(labels, predicted, digitShare, Names, LengthBins.Edges(0, 0.5, 1), "Digit share");
+        Assert.Equal("Digit share", r.Attribute);
+        Assert.Equal([2, 2], r.Rows.Select(b => b.Count).ToArray());
+        Assert.Equal([1.0, 0.5], r.Rows.Select(b => b.Accuracy).ToArray());
+        var e = Assert.Throws<ArgumentException>(() =>
+            LengthBreakdown.ByValue(labels, predicted, [0, 0, double.NaN, 0], Names, LengthBins.Quantiles(2)));
+        Assert.Contains("values[2]", e.Message);
+    }
+
+    [Fact]
     public void Values_outside_the_edges_are_an_error_not_dropped()
     {
         var e = Assert.Throws<ArgumentException>(() =>
