@@ -5,5 +5,7 @@ public static class MeasureCatalog
 {
     public static IReadOnlyList<IMeasure> All() => new IMeasure[]
     {
+        new Batching.PadWasteMeasure(),
+        new Batching.EpochSpeedupMeasure(),
     };
 }
