@@ -8,5 +8,7 @@ public static class MeasureCatalog
         new Data.CsvLoadMeasure(),
         new Diagnostics.TsneMeasure(),
         new Diagnostics.PcaMeasure(),
+        new Batching.PadWasteMeasure(),
+        new Batching.EpochSpeedupMeasure(),
     };
 }

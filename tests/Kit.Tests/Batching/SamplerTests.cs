@@ -55,6 +55,19 @@ public class SamplerTests
     }
 
     [Fact]
+    public void Bucket_members_are_reshuffled_between_epochs_not_only_the_batch_order()
+    {
+        // 400 rows of one length: a single bucket, so only shuffling inside it can change who shares a batch.
+        var set = SetOfLengths(Enumerable.Repeat(6, 400).ToArray());
+        var sampler = new BucketBatchSampler(20, 9);
+        static HashSet<string> Groups(IEnumerable<int[]> batches) => batches.Select(b => string.Join(",", b.Order())).ToHashSet();
+        var first = Groups(sampler.Batches(set, 0));
+        var second = Groups(sampler.Batches(set, 1));
+        Assert.Equal(20, first.Count);
+        Assert.True(first.Intersect(second).Count() < 2, "the same groups of rows came back in another epoch");
+    }
+
+    [Fact]
     public void Token_budget_caps_padded_positions_and_a_row_over_budget_is_named()
     {
         Gen.Select(Gen.Int[1, 30].Array[1, 200], Gen.Int[30, 200], Gen.ULong).Sample((lengths, budget, seed) =>

@@ -25,26 +25,19 @@ internal static class HandRecurrence
     /// reset gate placed as the engine documents it (torch.nn.GRU / TorchSharp GRU): r multiplies (W_hn h + b_hn)
     /// after the matrix product, n = tanh(W_in x + b_in + r ⊙ (W_hn h + b_hn)); h' = (1 − z) ⊙ n + z ⊙ h.
     /// </summary>
-    public static double[][] Gru(CellWeights w, IReadOnlyList<double[]> xs)
+    public static double[][] Gru(CellWeights w, IReadOnlyList<double[]> xs) => Unroll(xs, w.Hidden, (x, state) =>
     {
         int h = w.Hidden;
-        var state = new double[h];
-        var outputs = new List<double[]>();
-        foreach (var x in xs)
+        var next = new double[h];
+        for (int j = 0; j < h; j++)
         {
-            var next = new double[h];
-            for (int j = 0; j < h; j++)
-            {
-                double r = Sigmoid(Affine(w.Wih, w.Bih, j, w.Input, x) + Affine(w.Whh, w.Bhh, j, h, state));
-                double z = Sigmoid(Affine(w.Wih, w.Bih, h + j, w.Input, x) + Affine(w.Whh, w.Bhh, h + j, h, state));
-                double n = Math.Tanh(Affine(w.Wih, w.Bih, 2 * h + j, w.Input, x) + r * Affine(w.Whh, w.Bhh, 2 * h + j, h, state));
-                next[j] = (1 - z) * n + z * state[j];
-            }
-            state = next;
-            outputs.Add(next);
+            double r = Sigmoid(Affine(w.Wih, w.Bih, j, w.Input, x) + Affine(w.Whh, w.Bhh, j, h, state));
+            double z = Sigmoid(Affine(w.Wih, w.Bih, h + j, w.Input, x) + Affine(w.Whh, w.Bhh, h + j, h, state));
+            double n = Math.Tanh(Affine(w.Wih, w.Bih, 2 * h + j, w.Input, x) + r * Affine(w.Whh, w.Bhh, 2 * h + j, h, state));
+            next[j] = (1 - z) * n + z * state[j];
         }
-        return outputs.ToArray();
-    }
+        return next;
+    });
 
     /// <summary>
     /// LSTM with forget gate: Hochreiter &amp; Schmidhuber 1997 ("Long Short-Term Memory"), forget gate from Gers,
@@ -77,19 +70,17 @@ internal static class HandRecurrence
     }
 
     /// <summary>Plain tanh RNN (Elman 1990, "Finding Structure in Time"): h' = tanh(W_ih x + b_ih + W_hh h + b_hh).</summary>
-    public static double[][] Elman(CellWeights w, IReadOnlyList<double[]> xs)
+    public static double[][] Elman(CellWeights w, IReadOnlyList<double[]> xs) => Unroll(xs, w.Hidden, (x, state) =>
+        Enumerable.Range(0, w.Hidden)
+            .Select(j => Math.Tanh(Affine(w.Wih, w.Bih, j, w.Input, x) + Affine(w.Whh, w.Bhh, j, w.Hidden, state)))
+            .ToArray());
+
+    /// <summary>Applies a step (input, previous state) → new state from a zero state; returns every state.</summary>
+    static double[][] Unroll(IReadOnlyList<double[]> xs, int hidden, Func<double[], double[], double[]> step)
     {
-        int h = w.Hidden;
-        var state = new double[h];
-        var outputs = new List<double[]>();
-        foreach (var x in xs)
-        {
-            var next = new double[h];
-            for (int j = 0; j < h; j++)
-                next[j] = Math.Tanh(Affine(w.Wih, w.Bih, j, w.Input, x) + Affine(w.Whh, w.Bhh, j, h, state));
-            state = next;
-            outputs.Add(next);
-        }
-        return outputs.ToArray();
+        var state = new double[hidden];
+        var outputs = new double[xs.Count][];
+        for (int t = 0; t < xs.Count; t++) outputs[t] = state = step(xs[t], state);
+        return outputs;
     }
 }
