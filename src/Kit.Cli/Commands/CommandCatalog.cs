@@ -10,5 +10,8 @@ internal static class CommandCatalog
         yield return DemoDataCommand.Build();
         yield return DemoCommand.Build();
         yield return InspectCommand.Build();
+        yield return CompareCommand.Build();
+        yield return MergeCommand.Build();
+        yield return ReportCommand.Build();
     }
 }
