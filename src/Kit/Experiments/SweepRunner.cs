@@ -43,7 +43,8 @@ public static class SweepRunner
                     var record = executor.Execute(key, stop.Token) with { Shard = shard.IsWhole ? null : shard.ToString() };
                     if (record.Id != key.Id) throw new InvalidOperationException($"asked for run {key.Id} but got {record.Id}");
                     writer.Append(record);
-                    progress?.Report(new SweepProgress(Interlocked.Increment(ref done), pending.Length, already, record));
+                    int finishedNow = Interlocked.Increment(ref done);
+                    progress?.Report(new SweepProgress(finishedNow, pending.Length, already, record));
                 }
             }
             catch
