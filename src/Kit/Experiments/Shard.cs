@@ -37,10 +37,11 @@ public sealed record Shard(int Index, int Count)
     }
 
     /// <summary>
-    /// The index from array-job conventions. Slurm: SLURM_ARRAY_TASK_ID, offset by SLURM_ARRAY_TASK_MIN, with
-    /// the count from SLURM_ARRAY_TASK_COUNT or MAX − MIN + 1 (an array with a step, e.g. --array=0-9:2, has
-    /// gaps in its ids, so only COUNT is right there and it is preferred). A Kubernetes Indexed Job: the
-    /// 0-based JOB_COMPLETION_INDEX, with the count given by the caller (the Job's completions).
+    /// The index from array-job conventions. Slurm: SLURM_ARRAY_TASK_ID counted from SLURM_ARRAY_TASK_MIN in steps
+    /// of SLURM_ARRAY_TASK_STEP (so --array=0-9 and --array=1-19:2 both give shards 1..10), with the count from
+    /// SLURM_ARRAY_TASK_COUNT or (MAX − MIN) / STEP + 1. An array given as a list (--array=1,4,9) cannot be mapped
+    /// and is refused when an id falls off the range. A Kubernetes Indexed Job: the 0-based JOB_COMPLETION_INDEX,
+    /// with the count given by the caller (the Job's completions, which pods are not told).
     /// </summary>
     public static Shard FromEnvironment(Func<string, string?> environment, int? count)
     {
@@ -49,13 +50,16 @@ public sealed record Shard(int Index, int Count)
         {
             int id = Number(slurmId, "SLURM_ARRAY_TASK_ID");
             int min = environment("SLURM_ARRAY_TASK_MIN") is { Length: > 0 } m ? Number(m, "SLURM_ARRAY_TASK_MIN") : 0;
+            int step = environment("SLURM_ARRAY_TASK_STEP") is { Length: > 0 } st ? Number(st, "SLURM_ARRAY_TASK_STEP") : 1;
+            if (step < 1) throw new ArgumentException($"SLURM_ARRAY_TASK_STEP={step} must be positive");
+            if ((id - min) % step != 0) throw new ArgumentException($"SLURM_ARRAY_TASK_ID={id} is not on the array's range {min}, {min + step}, …; use --array=A-B[:STEP]");
             int? n = environment("SLURM_ARRAY_TASK_COUNT") is { Length: > 0 } c ? Number(c, "SLURM_ARRAY_TASK_COUNT")
-                : environment("SLURM_ARRAY_TASK_MAX") is { Length: > 0 } max ? Number(max, "SLURM_ARRAY_TASK_MAX") - min + 1
+                : environment("SLURM_ARRAY_TASK_MAX") is { Length: > 0 } max ? (Number(max, "SLURM_ARRAY_TASK_MAX") - min) / step + 1
                 : null;
             n ??= count ?? throw new ArgumentException("--shard auto under Slurm needs SLURM_ARRAY_TASK_COUNT or SLURM_ARRAY_TASK_MAX (or give auto/N)");
             if (count is int given && given != n)
                 throw new ArgumentException($"--shard auto/{given} but the Slurm array has {n} tasks");
-            return Checked(id - min + 1, n.Value, $"SLURM_ARRAY_TASK_ID={id} (min {min})");
+            return Checked((id - min) / step + 1, n.Value, $"SLURM_ARRAY_TASK_ID={id} (min {min}, step {step})");
         }
         string? k8s = environment("JOB_COMPLETION_INDEX");
         if (!string.IsNullOrEmpty(k8s))

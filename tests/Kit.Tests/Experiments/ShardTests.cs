@@ -23,8 +23,9 @@ public class ShardTests
         Assert.Contains("should be i/N", Assert.Throws<ArgumentException>(() => Shard.Parse("3")).Message);
     }
 
-    // Slurm job arrays: SLURM_ARRAY_TASK_ID, SLURM_ARRAY_TASK_MIN, SLURM_ARRAY_TASK_MAX and SLURM_ARRAY_TASK_COUNT
-    // are the variables the sbatch manual page lists under "OUTPUT ENVIRONMENT VARIABLES" for --array jobs.
+    // Slurm job arrays (Slurm documentation, "Job Array Support"): every task gets SLURM_ARRAY_TASK_ID, and
+    // SLURM_ARRAY_TASK_MIN, _MAX, _STEP and _COUNT describe the array (the full list of names from memory of that
+    // page and the sbatch manual's OUTPUT ENVIRONMENT VARIABLES).
     [Fact]
     public void Slurm_array_variables_give_index_and_count()
     {
@@ -32,6 +33,13 @@ public class ShardTests
         Assert.Equal(new Shard(3, 4), Shard.Parse("auto", Env(("SLURM_ARRAY_TASK_ID", "5"), ("SLURM_ARRAY_TASK_MIN", "3"), ("SLURM_ARRAY_TASK_MAX", "6"))));
         // COUNT wins over MAX − MIN + 1 (they differ for an array with a step).
         Assert.Equal(new Shard(1, 2), Shard.Parse("auto", Env(("SLURM_ARRAY_TASK_ID", "0"), ("SLURM_ARRAY_TASK_MIN", "0"), ("SLURM_ARRAY_TASK_MAX", "2"), ("SLURM_ARRAY_TASK_COUNT", "2"))));
+        // --array=1-19:2 (step 2): task 7 is the fourth of ten.
+        Assert.Equal(new Shard(4, 10), Shard.Parse("auto", Env(("SLURM_ARRAY_TASK_ID", "7"), ("SLURM_ARRAY_TASK_MIN", "1"), ("SLURM_ARRAY_TASK_MAX", "19"), ("SLURM_ARRAY_TASK_STEP", "2"))));
+        Assert.Contains("not on the array's range", Assert.Throws<ArgumentException>(() =>
+            Shard.Parse("auto", Env(("SLURM_ARRAY_TASK_ID", "4"), ("SLURM_ARRAY_TASK_MIN", "1"), ("SLURM_ARRAY_TASK_MAX", "19"), ("SLURM_ARRAY_TASK_STEP", "2")))).Message);
+        // --array=1,4,9 (a list): COUNT is 3 but id 9 is off the range 1..3.
+        Assert.Contains("outside 1..3", Assert.Throws<ArgumentException>(() =>
+            Shard.Parse("auto", Env(("SLURM_ARRAY_TASK_ID", "9"), ("SLURM_ARRAY_TASK_MIN", "1"), ("SLURM_ARRAY_TASK_MAX", "9"), ("SLURM_ARRAY_TASK_COUNT", "3")))).Message);
         Assert.Contains("has 4 tasks", Assert.Throws<ArgumentException>(() =>
             Shard.Parse("auto/3", Env(("SLURM_ARRAY_TASK_ID", "1"), ("SLURM_ARRAY_TASK_MIN", "1"), ("SLURM_ARRAY_TASK_MAX", "4")))).Message);
         Assert.Contains("SLURM_ARRAY_TASK_COUNT", Assert.Throws<ArgumentException>(() => Shard.Parse("auto", Env(("SLURM_ARRAY_TASK_ID", "1")))).Message);
