@@ -14,10 +14,11 @@ namespace Kit.Experiments;
 public static class FoldRun
 {
     /// <param name="rows">Table rows in play (a sample, or all); the split's indices are positions in this array.</param>
+    /// <param name="clock">Started by a caller that wants its own earlier steps (reading, splitting) in Elapsed.</param>
     public static RunOutcome Execute(RunSpec spec, LabelledTable table, int[] rows, Split split,
-        IProgress<TrainingProgress>? progress = null, CancellationToken cancel = default)
+        IProgress<TrainingProgress>? progress = null, CancellationToken cancel = default, Stopwatch? clock = null)
     {
-        var clock = Stopwatch.StartNew();
+        clock ??= Stopwatch.StartNew();
         var labels = new LabelMap(table.Labels);
         int[] y = rows.Select(r => labels[table.Labels[r]]).ToArray();
         var tokenizer = spec.CreateTokenizer();

@@ -32,14 +32,8 @@ public static class PairedBootstrap
         }
         Array.Sort(values);
         double tail = (1 - level) / 2;
-        return new BootstrapInterval(observed, Quantile(values, tail), Quantile(values, 1 - tail), replicates, seed);
-    }
-
-    /// <summary>Linear interpolation between order statistics (Hyndman and Fan 1996, type 7).</summary>
-    static double Quantile(double[] sorted, double q)
-    {
-        double h = (sorted.Length - 1) * q;
-        int lo = (int)Math.Floor(h);
-        return lo + 1 < sorted.Length ? sorted[lo] + (h - lo) * (sorted[lo + 1] - sorted[lo]) : sorted[lo];
+        // Same type-7 quantile as the calibration report's ECE interval.
+        return new BootstrapInterval(observed, Kit.Diagnostics.CalibrationReport.Quantile(values, tail),
+            Kit.Diagnostics.CalibrationReport.Quantile(values, 1 - tail), replicates, seed);
     }
 }

@@ -96,4 +96,23 @@ public sealed class SweepCliTests : IDisposable
         Assert.Contains("describes a different sweep", err);
         Assert.False(File.Exists(Path.Combine(store, ResultsStore.MainFile)));
     }
+
+    [Fact]
+    public void Bad_data_and_a_corrupt_store_are_reported_with_file_and_line()
+    {
+        string data = Path.Combine(_dir, "bad.csv");
+        File.WriteAllText(data, "text,label\nalpha,x\nbeta\n");
+        var (code, _, err) = KitCli.Run(["compare", data, "--out", Path.Combine(_dir, "bad-out")]);
+        Assert.Equal(2, code);
+        Assert.Contains("bad.csv:3", err);
+
+        string store = Path.Combine(_dir, "corrupt");
+        Directory.CreateDirectory(store);
+        var good = ResultsStoreTests.Record("cell=gru", 1, 1).ToJsonLine();
+        File.WriteAllText(Path.Combine(store, ResultsStore.MainFile), good + "\n" + "not json\n" + good.Replace("fold=1/2", "fold=2/2") + "\n");
+        (code, _, err) = KitCli.Run(["report", store]);
+        Assert.Equal(2, code);
+        Assert.Contains($"{ResultsStore.MainFile}:2", err);
+        Assert.Contains("not a run record", err);
+    }
 }
