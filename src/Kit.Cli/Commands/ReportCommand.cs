@@ -16,6 +16,23 @@ internal static class ReportCommand
         return command;
     }
 
+    /// <summary>The data file's name from the sweep description, else the folder's name.</summary>
+    static string DataName(string dir)
+    {
+        string definition = Path.Combine(dir, ResultsStore.DefinitionFile);
+        if (File.Exists(definition))
+        {
+            try
+            {
+                using var doc = System.Text.Json.JsonDocument.Parse(File.ReadAllText(definition));
+                if (doc.RootElement.TryGetProperty("base_spec", out var spec) && spec.TryGetProperty("DataPath", out var data) && data.GetString() is { Length: > 0 } name)
+                    return name;
+            }
+            catch (System.Text.Json.JsonException) { }
+        }
+        return Path.GetFileName(Path.GetFullPath(dir).TrimEnd('/'));
+    }
+
     internal static int Write(string dir)
     {
         var contents = ResultsStore.Read(dir);
@@ -26,7 +43,7 @@ internal static class ReportCommand
             return 1;
         }
         var comparison = ComparisonRecord.Build(contents.Records, contents.Notes);
-        string path = ComparisonReport.Write(dir, comparison, Path.GetFileName(Path.GetFullPath(dir).TrimEnd('/')));
+        string path = ComparisonReport.Write(dir, comparison, DataName(dir));
         var inv = CultureInfo.InvariantCulture;
         Console.WriteLine(string.Create(inv, $"{"config",-40} {"runs",4} {"accuracy",9} {"sd",7} {"macro F1",8} {"ECE",6} {"params",10}"));
         foreach (var s in comparison.Configs)

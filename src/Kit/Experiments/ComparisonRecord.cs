@@ -65,4 +65,31 @@ public sealed record ComparisonRecord(IReadOnlyList<ConfigSummary> Configs, IRea
             new DoubleDataFrameColumn("difference_low", p.Select(x => x.Bootstrap.Low)),
             new DoubleDataFrameColumn("difference_high", p.Select(x => x.Bootstrap.High)));
     }
+
+    /// <summary>By-length accuracy in long form: one row per config × length bin (items pooled over runs).</summary>
+    public DataFrame ByLengthToDataFrame()
+    {
+        var rows = Configs.SelectMany(c => c.ByLength.Select(b => (c.Config, b))).ToArray();
+        return new DataFrame(
+            new StringDataFrameColumn("config", rows.Select(r => r.Config)),
+            new StringDataFrameColumn("bin", rows.Select(r => r.b.Bin)),
+            new Int32DataFrameColumn("count", rows.Select(r => r.b.Count)),
+            new Int32DataFrameColumn("correct", rows.Select(r => r.b.Correct)),
+            new DoubleDataFrameColumn("accuracy", rows.Select(r => r.b.Accuracy)),
+            new DoubleDataFrameColumn("wilson_low", rows.Select(r => r.b.WilsonLow)),
+            new DoubleDataFrameColumn("wilson_high", rows.Select(r => r.b.WilsonHigh)));
+    }
+
+    /// <summary>Mean learning curves in long form: one row per config × epoch.</summary>
+    public DataFrame CurvesToDataFrame()
+    {
+        var rows = Configs.SelectMany(c => c.Curve.Select(p => (c.Config, p))).ToArray();
+        return new DataFrame(
+            new StringDataFrameColumn("config", rows.Select(r => r.Config)),
+            new Int32DataFrameColumn("epoch", rows.Select(r => r.p.Epoch)),
+            new Int32DataFrameColumn("runs", rows.Select(r => r.p.Runs)),
+            new DoubleDataFrameColumn("train_loss", rows.Select(r => r.p.TrainLoss)),
+            new DoubleDataFrameColumn("validation_loss", rows.Select(r => r.p.ValidationLoss)),
+            new DoubleDataFrameColumn("validation_accuracy", rows.Select(r => r.p.ValidationAccuracy)));
+    }
 }

@@ -46,6 +46,8 @@ public class ComparisonRecordTests
         Assert.Equal((3, 2), (vsNbSeed2.McNemar.OnlyA, vsNbSeed2.McNemar.OnlyB)); // gru seed 2 misses 0,1; nb misses 5,6,7
         Assert.Equal(c.PairedTests.Count, c.PairedToDataFrame().Rows.Count);
         Assert.Equal(3, c.ToDataFrame().Rows.Count);
+        Assert.Equal(3 * 2, c.ByLengthToDataFrame().Rows.Count);
+        Assert.Equal(2, c.CurvesToDataFrame().Rows.Count); // one epoch for each neural config, none for the baseline
     }
 
     [Fact]
