@@ -56,14 +56,19 @@ public static class BenchReport
     public static void Write(string path, IReadOnlyList<Figure> figures)
     {
         var rows = new SortedDictionary<string, string>(StringComparer.Ordinal);
+        string after = "";
         if (File.Exists(path))
         {
             var old = File.ReadAllText(path);
             int a = old.IndexOf(Begin, StringComparison.Ordinal), b = old.IndexOf(End, StringComparison.Ordinal);
             if (a >= 0 && b > a)
+            {
                 foreach (var line in old[(a + Begin.Length)..b].Split('\n'))
                     if (line.StartsWith("| `", StringComparison.Ordinal))
                         rows[line.Split('`')[1]] = line;
+                // Hand-written sections below the table (e.g. the open-data check) are kept as they are.
+                after = old[(b + End.Length)..].TrimStart('\r', '\n');
+            }
         }
         string when = DateTime.UtcNow.ToString("yyyy-MM-dd HH:mm 'UTC'", CultureInfo.InvariantCulture);
         foreach (var f in figures)
@@ -83,6 +88,7 @@ public static class BenchReport
         sb.AppendLine(Begin);
         foreach (var r in rows.Values) sb.AppendLine(r);
         sb.AppendLine(End);
+        if (after.Length > 0) sb.AppendLine().Append(after);
         Directory.CreateDirectory(Path.GetDirectoryName(Path.GetFullPath(path))!);
         File.WriteAllText(path, sb.ToString());
     }

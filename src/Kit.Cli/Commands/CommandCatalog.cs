@@ -11,5 +11,8 @@ internal static class CommandCatalog
         yield return DemoCommand.Build();
         yield return InspectCommand.Build();
         yield return NotebookCommand.Build();
+        yield return CompareCommand.Build();
+        yield return MergeCommand.Build();
+        yield return ReportCommand.Build();
     }
 }
