@@ -8,14 +8,16 @@ namespace Kit.Notebooks;
 /// <summary>
 /// The folder package feed that notebooks reference with <c>#i "nuget: ..."</c>: Kit and Kit.Notebooks packed
 /// from this source tree. Packing is skipped when the sources have not changed since the last pack (a hash of
-/// them is kept beside the packages). Because the version stays 0.1.0, a fresh pack also removes that version
-/// from the NuGet global packages folder; otherwise restores would keep using the first copy ever extracted.
+/// them is kept beside the packages). Because the version stays 0.1.0, NuGet would keep using whichever copy it
+/// extracted first into its global packages folder (another worktree's, or last week's), so a copy there whose
+/// checksum differs from the feed's package is removed and gets extracted again from the feed.
 /// </summary>
 public static partial class LocalFeed
 {
     static readonly string[] Projects = { "src/Kit/Kit.csproj", "src/Kit.Notebooks/Kit.Notebooks.csproj" };
     static readonly string[] SourceRoots = { "src/Kit", "src/Kit.Notebooks" };
     static readonly string[] SharedFiles = { "Directory.Build.props", "Directory.Packages.props" };
+    static readonly string[] PackageIds = { "Kit", "Kit.Notebooks" };
     const string StampFile = ".kit-sources.sha256";
     static readonly object Gate = new();
 
@@ -38,20 +40,29 @@ public static partial class LocalFeed
             string hash = SourceHash(repoRoot);
             string stamp = Path.Combine(feed, StampFile);
             string version = PackageVersion(repoRoot);
-            bool present = new[] { "Kit", "Kit.Notebooks" }.All(id => File.Exists(Path.Combine(feed, $"{id}.{version}.nupkg")));
-            if (present && File.Exists(stamp) && File.ReadAllText(stamp).Trim() == hash) return feed;
-
-            Directory.CreateDirectory(feed);
-            foreach (var project in Projects)
-                Pack(repoRoot, Path.Combine(repoRoot, project), feed, log);
-            foreach (var id in new[] { "kit", "kit.notebooks" })
+            bool present = PackageIds.All(id => File.Exists(Path.Combine(feed, $"{id}.{version}.nupkg")));
+            if (!present || !File.Exists(stamp) || File.ReadAllText(stamp).Trim() != hash)
             {
-                string extracted = Path.Combine(NuGetPackagesFolder(), id, version);
-                if (Directory.Exists(extracted)) Directory.Delete(extracted, recursive: true);
+                Directory.CreateDirectory(feed);
+                foreach (var project in Projects)
+                    Pack(repoRoot, Path.Combine(repoRoot, project), feed, log);
+                File.WriteAllText(stamp, hash);
             }
-            File.WriteAllText(stamp, hash);
+            foreach (var id in PackageIds)
+                EvictIfDifferent(Path.Combine(feed, $"{id}.{version}.nupkg"), Path.Combine(NuGetPackagesFolder(), id.ToLowerInvariant(), version), log);
             return feed;
         }
+    }
+
+    /// <summary>NuGet keeps the base64 SHA-512 of the package it extracted in &lt;id&gt;.&lt;version&gt;.nupkg.sha512.</summary>
+    internal static void EvictIfDifferent(string package, string extracted, TextWriter? log)
+    {
+        if (!Directory.Exists(extracted)) return;
+        string expected = Convert.ToBase64String(SHA512.HashData(File.ReadAllBytes(package)));
+        string? recorded = Directory.EnumerateFiles(extracted, "*.nupkg.sha512").Select(f => File.ReadAllText(f).Trim()).FirstOrDefault();
+        if (recorded == expected) return;
+        log?.WriteLine($"removing {extracted}: it is not the package in the feed");
+        Directory.Delete(extracted, recursive: true);
     }
 
     static void Pack(string repoRoot, string project, string feed, TextWriter? log)

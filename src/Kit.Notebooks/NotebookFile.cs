@@ -28,6 +28,16 @@ public static class NotebookFile
     /// </summary>
     public static InteractiveDocument Load(string path)
     {
+        var rawCells = new List<int>();
+        var document = Parse(path, rawCells);
+        // The reader turns "raw" cells into code cells of the default language; they are text, not code to run.
+        foreach (int i in rawCells)
+            if (i < document.Elements.Count) document.Elements[i].KernelName = Markdown;
+        return document;
+    }
+
+    static InteractiveDocument Parse(string path, List<int> rawCells)
+    {
         string full = System.IO.Path.GetFullPath(path);
         if (!File.Exists(full)) throw new NotebookFormatException(full, "file not found");
         string json = File.ReadAllText(full);
@@ -51,6 +61,7 @@ public static class NotebookFile
                     throw new NotebookFormatException(full, $"cell {i} has no \"cell_type\"");
                 if (!cell.TryGetProperty("source", out var source) || source.ValueKind is not (JsonValueKind.String or JsonValueKind.Array))
                     throw new NotebookFormatException(full, $"cell {i} has no \"source\" text");
+                if (type.GetString() == "raw") rawCells.Add(i - 1);
             }
         }
         catch (JsonException e)

@@ -47,8 +47,11 @@ public static class SessionAssets
     {
         var context = KernelInvocationContext.Current
             ?? throw new InvalidOperationException("ResendPlotly needs a running notebook cell.");
-        var root = context.HandlingKernel?.RootKernel;
-        if (root is not null) lock (Sessions.GetOrCreateValue(root)) Sessions.GetOrCreateValue(root).Plotly = true;
+        if (context.HandlingKernel?.RootKernel is { } root)
+        {
+            var sent = Sessions.GetOrCreateValue(root);
+            lock (sent) sent.Plotly = true;
+        }
         context.Display(Kernel.HTML(PlotlyAsset.ScriptTag()), "text/html");
     }
 }

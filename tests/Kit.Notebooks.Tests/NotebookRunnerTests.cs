@@ -62,13 +62,13 @@ public class NotebookRunnerTests
         using var nb = new TestNotebook();
         File.WriteAllText(Path.Combine(nb.Folder, "beside.txt"), "found beside the notebook");
         string path = nb.Write("cwd.ipynb", "System.IO.File.ReadAllText(\"beside.txt\")");
-        string before = Environment.CurrentDirectory;
 
         var result = await new NotebookRunner().RunAsync(path);
 
         Assert.True(result.Succeeded, result.FailureMessage);
         Assert.Equal("found beside the notebook", result.Cells[0].Outputs.Single(o => o.Kind == CellOutput.Result).Text);
-        Assert.Equal(before, Environment.CurrentDirectory);
+        // Other runs in this process may hold the working directory now, but never this notebook's folder.
+        Assert.NotEqual(nb.Folder, Environment.CurrentDirectory);
     }
 
     [Fact]
@@ -110,5 +110,22 @@ public class NotebookRunnerTests
 
         Assert.Equal(1, result.Failure!.Number);
         Assert.Contains("within 2 s", result.FailureMessage);
+    }
+
+    [Fact]
+    public async Task Raw_cells_are_not_run_as_code()
+    {
+        using var nb = new TestNotebook();
+        string path = nb.WriteRaw("raw.ipynb", """
+            {"nbformat": 4, "nbformat_minor": 5, "metadata": {}, "cells": [
+              {"cell_type": "raw", "metadata": {}, "source": "this is not C# at all"},
+              {"cell_type": "code", "metadata": {}, "source": "40 + 2", "outputs": [], "execution_count": null}]}
+            """);
+
+        var result = await new NotebookRunner().RunAsync(path);
+
+        Assert.True(result.Succeeded, result.FailureMessage);
+        Assert.Equal(CellStatus.Text, result.Cells[0].Status);
+        Assert.Equal("42", result.Cells[1].Outputs.Single(o => o.Kind == CellOutput.Result).Text);
     }
 }

@@ -120,3 +120,30 @@ public class LocalFeedTests
         Assert.Contains("Kit.sln", e.Message);
     }
 }
+
+public class CacheEvictionTests
+{
+    [Fact]
+    public void An_extracted_copy_is_kept_only_when_its_recorded_checksum_is_the_feed_package()
+    {
+        string root = Directory.CreateTempSubdirectory("kit-evict-").FullName;
+        try
+        {
+            string package = Path.Combine(root, "Kit.0.1.0.nupkg");
+            File.WriteAllBytes(package, new byte[] { 1, 2, 3 });
+            string extracted = Path.Combine(root, "cache", "kit", "0.1.0");
+            Directory.CreateDirectory(extracted);
+            // NuGet records base64(SHA-512(package bytes)) in <id>.<version>.nupkg.sha512 when it extracts.
+            string same = Convert.ToBase64String(System.Security.Cryptography.SHA512.HashData(new byte[] { 1, 2, 3 }));
+            File.WriteAllText(Path.Combine(extracted, "kit.0.1.0.nupkg.sha512"), same);
+
+            LocalFeed.EvictIfDifferent(package, extracted, null);
+            Assert.True(Directory.Exists(extracted));
+
+            File.WriteAllBytes(package, new byte[] { 1, 2, 4 });
+            LocalFeed.EvictIfDifferent(package, extracted, null);
+            Assert.False(Directory.Exists(extracted));
+        }
+        finally { Directory.Delete(root, recursive: true); }
+    }
+}
