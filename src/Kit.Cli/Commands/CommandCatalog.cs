@@ -9,5 +9,6 @@ internal static class CommandCatalog
     {
         yield return DemoDataCommand.Build();
         yield return DemoCommand.Build();
+        yield return InspectCommand.Build();
     }
 }
