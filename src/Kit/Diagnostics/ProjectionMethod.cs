@@ -1,0 +1,7 @@
+namespace Kit.Diagnostics;
+
+public enum ProjectionMethod
+{
+    Pca,
+    Tsne,
+}
