@@ -5,5 +5,7 @@ public static class MeasureCatalog
 {
     public static IReadOnlyList<IMeasure> All() => new IMeasure[]
     {
+        new Training.TrainingRatioMeasure(),
+        new Training.ThroughputCeilingMeasure(),
     };
 }

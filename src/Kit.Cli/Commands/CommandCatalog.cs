@@ -10,5 +10,7 @@ internal static class CommandCatalog
         yield return DemoDataCommand.Build();
         yield return DemoCommand.Build();
         yield return InspectCommand.Build();
+        yield return TrainCommand.Build();
+        yield return ScoreCommand.Build();
     }
 }
