@@ -127,6 +127,9 @@ internal static class TrainCommand
     {
         spec.Training.Validate();
         Console.Error.WriteLine(Kit.Native.Engine.EnsureLoaded());
+        string checkpoint = Trainer.CheckpointPath(spec.Training.CheckpointDirectory!);
+        if (spec.Training.Resume)
+            Console.Error.WriteLine(File.Exists(checkpoint) ? $"resuming from {checkpoint}" : $"--resume: no checkpoint at {checkpoint}; starting from epoch 1");
         using var cancel = new CancellationTokenSource();
         ConsoleCancelEventHandler onCancel = (_, e) =>
         {

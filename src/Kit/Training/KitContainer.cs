@@ -44,6 +44,18 @@ internal static class KitContainer
         return result;
     }
 
+    public static byte[] ReadFile(string path)
+    {
+        try
+        {
+            return File.ReadAllBytes(path);
+        }
+        catch (Exception e) when (e is IOException or UnauthorizedAccessException)
+        {
+            throw new BundleError(path, $"cannot read the file: {e.Message}", e);
+        }
+    }
+
     public static (JsonObject Manifest, Dictionary<string, byte[]> Sections) Read(byte[] file, string source, string magic, string what,
         IReadOnlyDictionary<string, string>? otherMagics = null)
     {

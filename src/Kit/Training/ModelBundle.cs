@@ -64,19 +64,7 @@ public sealed class ModelBundle
     /// <summary>Writes atomically: a reader never sees half a bundle.</summary>
     public void Save(string path) => AtomicFile.WriteAllBytes(path, ToBytes());
 
-    public static ModelBundle Load(string path)
-    {
-        byte[] bytes;
-        try
-        {
-            bytes = File.ReadAllBytes(path);
-        }
-        catch (Exception e) when (e is IOException or UnauthorizedAccessException)
-        {
-            throw new BundleError(path, $"cannot read the file: {e.Message}", e);
-        }
-        return FromBytes(bytes, path);
-    }
+    public static ModelBundle Load(string path) => FromBytes(KitContainer.ReadFile(path), path);
 
     public static ModelBundle FromBytes(byte[] bytes, string source)
     {

@@ -188,6 +188,9 @@ public static class Trainer
         return history;
     }
 
+    /// <summary>Where <see cref="Fit"/> keeps the per-epoch checkpoint inside a checkpoint directory.</summary>
+    public static string CheckpointPath(string checkpointDirectory) => TrainingCheckpoint.PathIn(checkpointDirectory);
+
     /// <summary>Mean cross-entropy and accuracy over a set, in evaluation mode, without gradients.</summary>
     public static (double Loss, double Accuracy) Evaluate(SequenceClassifier model, EncodedSet set, int batchSize = 256)
     {

@@ -50,16 +50,7 @@ internal sealed class TrainingCheckpoint : IDisposable
 
     internal static TrainingCheckpoint Load(string path)
     {
-        byte[] bytes;
-        try
-        {
-            bytes = File.ReadAllBytes(path);
-        }
-        catch (Exception e) when (e is IOException or UnauthorizedAccessException)
-        {
-            throw new BundleError(path, $"cannot read the checkpoint: {e.Message}", e);
-        }
-        var (m, sections) = KitContainer.Read(bytes, path, Magic, What,
+        var (m, sections) = KitContainer.Read(KitContainer.ReadFile(path), path, Magic, What,
             new Dictionary<string, string> { [ModelBundle.Magic] = "kit model bundle" });
         CheckpointState? state;
         try
