@@ -17,7 +17,7 @@ internal static class TrainingBenchData
         return new EncodedSet(tokens, offsets, labels);
     }
 
-    /// <summary>Rows of a batch as an int64 [B, T] tensor, built the plain way.</summary>
+    /// <summary>Rows of a batch as int64 tokens [B, T] and labels [B], built the plain way a hand-written loop would.</summary>
     public static (TorchSharp.torch.Tensor Tokens, TorchSharp.torch.Tensor Labels) Tensors(EncodedSet set, int[] rows, int length)
     {
         var ids = new long[rows.Length * length];

@@ -136,7 +136,7 @@ public static class Trainer
                     double doneFraction = ((epoch - firstEpoch) + (b + 1) / (double)batches.Count) / epochsThisProcess;
                     var eta = TimeSpan.FromSeconds(clock.Elapsed.TotalSeconds * (1 - doneFraction) / Math.Max(doneFraction, 1e-9));
                     progress.Report(new TrainingProgress(epoch, options.Epochs, b + 1, batches.Count, lossSum / seen,
-                        history.Epochs.Count > 0 ? history.Epochs[^1].ValidationAccuracy : null, eta, rate));
+                        history.Epochs.Count > 0 && validation is not null ? history.Epochs[^1].ValidationAccuracy : null, eta, rate));
                 }
             }
             if (interrupted) break;
