@@ -10,5 +10,7 @@ public static class MeasureCatalog
         new Diagnostics.PcaMeasure(),
         new Batching.PadWasteMeasure(),
         new Batching.EpochSpeedupMeasure(),
+        new Training.TrainingRatioMeasure(),
+        new Training.ThroughputCeilingMeasure(),
     };
 }

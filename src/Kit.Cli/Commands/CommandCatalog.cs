@@ -14,5 +14,7 @@ internal static class CommandCatalog
         yield return CompareCommand.Build();
         yield return MergeCommand.Build();
         yield return ReportCommand.Build();
+        yield return TrainCommand.Build();
+        yield return ScoreCommand.Build();
     }
 }

@@ -9,15 +9,21 @@ namespace Kit.Training;
 /// <summary>Runs a trained model over a set and hands back plain arrays for the diagnostics layer.</summary>
 public static class Scoring
 {
-    /// <summary>Raw logits, one row per sequence, in the set's order.</summary>
+    /// <summary>
+    /// Raw logits, one row per sequence, in the set's order. Rows are batched in length order (and put back), so a
+    /// batch holds little padding. Rows do not interact; the grouping can move only the last float bits.
+    /// </summary>
     public static double[][] Logits(SequenceClassifier model, EncodedSet set, int batchSize = 512)
     {
         Kit.Native.Engine.EnsureLoaded();
         model.eval();
         using var noGrad = torch.no_grad();
         var result = new double[set.Count][];
-        foreach (var rows in new SequentialBatchSampler(batchSize).Batches(set, 0))
+        var lengths = set.Lengths();
+        var order = Enumerable.Range(0, set.Count).OrderBy(i => lengths[i]).ToArray();
+        for (int start = 0; start < order.Length; start += batchSize)
         {
+            var rows = order[start..Math.Min(order.Length, start + batchSize)];
             using var scope = torch.NewDisposeScope();
             using var batch = BatchBuilder.Build(set, rows);
             var logits = model.forward(batch.Tokens, batch.Lengths).to(ScalarType.Float64).contiguous();
