@@ -6,23 +6,22 @@ namespace Kit.Notebooks.Tests;
 [Collection(FeedCollection.Name)]
 public class PackagedNotebookTests(FeedFixture feed)
 {
-    public static TheoryData<string> Notebooks()
-    {
-        string dir = Path.Combine(LocalFeed.FindRepoRoot(AppContext.BaseDirectory), "notebooks");
-        var data = new TheoryData<string>();
-        foreach (var file in Directory.EnumerateFiles(dir, "*.ipynb").OrderBy(f => f, StringComparer.Ordinal))
-            data.Add(Path.GetFileName(file));
-        return data;
-    }
+    public static TheoryData<string> Notebooks() => FeedFixture.Notebooks();
 
     [Theory]
     [MemberData(nameof(Notebooks))]
-    public async Task Every_notebook_runs_to_the_end(string name)
+    public async Task Every_notebook_runs_to_the_end_and_ends_with_charts(string name)
     {
-        string path = Path.Combine(feed.RepoRoot, "notebooks", name);
-        var result = await feed.Runner().RunAsync(path);
+        var result = await feed.Executed(name);
         Assert.True(result.Succeeded, $"{name}: {result.FailureMessage}");
-        Assert.Contains(result.Cells, c => c.Status == CellStatus.Passed);
+        var code = result.Cells.Where(c => c.Status != CellStatus.Text).ToArray();
+        Assert.All(code, c => Assert.Equal(CellStatus.Passed, c.Status));
+        Assert.Equal(CellStatus.Text, result.Cells[0].Status);
+        // "Ends with the charts a report needs": the last code cell draws at least one chart.
+        Assert.True(code[^1].Outputs.Sum(o => ChartMarkers.Charts(o.Html)) > 0, $"{name}: the last code cell draws no chart");
+        // Loading the kit loaded the engine too: the notebooks train models.
+        Assert.Contains(result.Outputs, o => o.Html?.Contains("Kit 0.1.0 loaded · engine: ") == true);
+        Assert.DoesNotContain(result.Outputs, o => o.Html?.Contains("engine not loaded") == true);
     }
 
     [Fact]
