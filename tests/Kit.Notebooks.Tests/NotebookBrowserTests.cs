@@ -83,7 +83,7 @@ public class NotebookBrowserTests(FeedFixture feed, ITestOutputHelper output)
         Assert.Equal(expected, census.WithSvg);
         Assert.Equal(MainSvgsPerChart * expected, census.MainSvgs);
         if (footer) Assert.Equal(expected, census.FooterCount);
-        Assert.Empty(open.ConsoleErrors.Where(e => ignoreConsole?.Invoke(e) != true));
+        Assert.DoesNotContain(open.ConsoleErrors, e => ignoreConsole?.Invoke(e) != true);
 
         string shot = Path.ChangeExtension(page, ".png");
         await open.ScreenshotAsync(shot);
