@@ -83,7 +83,10 @@ public sealed record RunDiagnostics
         if (take >= MinProjectedRows)
         {
             stages?.Report($"t-SNE of {take} pooled test representations");
-            int[] sample = take < run.Test.Count ? SingleRun.StratifiedSample(labels, take, options.Seed) : Enumerable.Range(0, run.Test.Count).ToArray();
+            // Stratified rounding can add up to one row per class, so ask for that many fewer and cap at the budget.
+            int[] sample = take < run.Test.Count
+                ? SingleRun.StratifiedSample(labels, Math.Max(1, take - names.Count), options.Seed).Take(take).ToArray()
+                : Enumerable.Range(0, run.Test.Count).ToArray();
             var subset = run.Test.Subset(sample);
             var pooled = ModelReadout.Pooled(run.Model, subset);
             var texts = run.TestTexts();

@@ -58,7 +58,7 @@ public static class CalibrationViews
         layout.Remove("xaxis");
         layout.Remove("yaxis");
         layout["showlegend"] = false;
-        layout["margin"]!["t"] = 96;
+        layout["title"]!["pad"]!["b"] = 34;   // the top row's panel titles sit between the chart title and the panels
         var notes = new JsonArray();
         for (int c = 0; c < k; c++)
         {

@@ -28,6 +28,7 @@ public static class HistoryViews
         // The right-hand accuracy axis takes the space a side legend would use, so this legend sits underneath.
         layout["legend"] = new JsonObject { ["orientation"] = "h", ["x"] = 0.0, ["xanchor"] = "left", ["y"] = -0.28, ["yanchor"] = "top" };
         layout["margin"]!["b"] = 96;
+        layout["margin"]!["r"] = 72;   // room for the right-hand axis title
         layout["height"] = 420;
         layout["shapes"] = new JsonArray(new JsonObject
         {

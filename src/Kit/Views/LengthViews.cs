@@ -59,6 +59,7 @@ public static class LengthViews
         layout["yaxis2"] = y2;
         layout["legend"] = new JsonObject { ["orientation"] = "h", ["x"] = 0.0, ["xanchor"] = "left", ["y"] = -0.26, ["yanchor"] = "top" };
         layout["margin"]!["b"] = 96;
+        layout["margin"]!["r"] = 72;   // room for the right-hand axis title
         return new ChartView("Accuracy by length", traces, layout)
         {
             Caption = "Shaded: 95 % Wilson interval of the accuracy; a dip inside the band of its neighbours may be noise. Grey bars: rows per bin (right axis).",

@@ -25,7 +25,11 @@ public static class Theme
     public const string Grid = "#E4E7EB";
     public const string Good = "#3C8D6E";
     public const string Bad = "#A8443A";
-    public const string FontStack = "'Source Sans 3', 'Segoe UI', 'Helvetica Neue', Arial, sans-serif";
+    /// <summary>
+    /// Single-word family names only: plotly.js writes the stack into SVG style attributes without re-quoting,
+    /// and a quoted name ("Segoe UI") there makes the exported SVG invalid XML (and its PNG fail to draw).
+    /// </summary>
+    public const string FontStack = "Inter, Roboto, Helvetica, Arial, sans-serif";
 
     /// <summary>Sequential scale from paper white to the deep blue, for counts and rates.</summary>
     public static JsonArray SequentialScale() => new(
@@ -42,16 +46,19 @@ public static class Theme
     {
         return new JsonObject
         {
+            // Just above the plot area, pushing the top margin as far as its two lines need.
             ["title"] = new JsonObject
             {
-                ["text"] = TitleMarkup(title), ["x"] = 0.0, ["xanchor"] = "left", ["xref"] = "paper", ["y"] = 0.985, ["yanchor"] = "top", ["yref"] = "container",
+                ["text"] = TitleMarkup(title), ["x"] = 0.0, ["xanchor"] = "left", ["xref"] = "paper",
+                ["y"] = 1.0, ["yanchor"] = "bottom", ["yref"] = "paper", ["automargin"] = true,
+                ["pad"] = new JsonObject { ["b"] = 14 },
                 ["font"] = new JsonObject { ["size"] = 15, ["color"] = Ink },
             },
             ["font"] = new JsonObject { ["family"] = FontStack, ["size"] = 12, ["color"] = Ink },
             ["paper_bgcolor"] = "#FFFFFF",
             ["plot_bgcolor"] = "#FFFFFF",
             ["height"] = height,
-            ["margin"] = new JsonObject { ["l"] = 64, ["r"] = 24, ["t"] = 72, ["b"] = 56 },
+            ["margin"] = new JsonObject { ["l"] = 64, ["r"] = 24, ["t"] = 28, ["b"] = 56 },
             ["xaxis"] = Axis(xTitle),
             ["yaxis"] = Axis(yTitle),
             // Beside the plot, top right: it never collides with an axis title, however the ticks are turned.
