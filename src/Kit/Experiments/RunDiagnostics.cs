@@ -32,6 +32,8 @@ public sealed record RunDiagnostics
     public required ErrorAnalysis Errors { get; init; }
     public required IReadOnlyList<OcclusionCase> Occlusions { get; init; }
     public required DiagnosticsOptions Options { get; init; }
+    /// <summary>Wall time spent computing these records (the t-SNE usually dominates).</summary>
+    public TimeSpan Elapsed { get; init; }
 
     /// <summary>Fewer test rows than this and a t-SNE picture shows noise, so none is drawn.</summary>
     public const int MinProjectedRows = 20;
@@ -41,6 +43,7 @@ public sealed record RunDiagnostics
         ArgumentNullException.ThrowIfNull(run);
         options ??= run.Spec.Diagnostics;
         options.Validate();
+        var clock = System.Diagnostics.Stopwatch.StartNew();
         var names = run.Labels.Names;
         var split = run.Split;
         var used = run.Table.Subset(run.Rows);
@@ -113,6 +116,7 @@ public sealed record RunDiagnostics
             Profile = profile, Split = splitSummary, Leakage = leakage, Coverage = coverage, TestLengths = testLengths, ByLength = byLength,
             Calibration = calibration, CalibrationEqualMass = equalMass, Temperature = temperature, CalibrationAfterScaling = after,
             Embedding = embedding, TestRepresentations = representations, Errors = errors, Occlusions = occlusions, Options = options,
+            Elapsed = clock.Elapsed,
         };
     }
 

@@ -265,4 +265,19 @@ public class ViewTests
         var arr = Figure.Numbers(new[] { 1.5, double.NaN, double.PositiveInfinity });
         Assert.Equal("[1.5,null,null]", arr.ToJsonString());
     }
+
+    [Theory]
+    [InlineData("1,234", true)]
+    [InlineData("92.2 %", true)]
+    [InlineData("–", true)]
+    [InlineData("-0.005", true)]
+    [InlineData("88966plair", false)]
+    [InlineData("5fb32", false)]
+    [InlineData("", false)]
+    public void Only_number_like_cells_are_right_aligned(string cell, bool numeric)
+    {
+        Assert.Equal(numeric, Html.LooksNumeric(cell));
+        string html = Html.Table(new[] { "a", "b" }, new[] { new[] { cell, cell } }, textColumns: new[] { 1 });
+        Assert.Equal(numeric ? 1 : 0, Regex.Matches(html, "<td class=\"num\">").Count);
+    }
 }
