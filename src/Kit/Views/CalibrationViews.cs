@@ -50,15 +50,16 @@ public static class CalibrationViews
     {
         int k = r.PerClass.Count;
         int cols = Math.Min(4, k), rows = (k + cols - 1) / cols;
-        const double gapX = 0.06, gapY = 0.11;
+        // Rows need room for the x titles of one row plus the panel titles of the next.
+        const double gapX = 0.06, gapY = 0.2;
         double w = (1 - gapX * (cols - 1)) / cols, h = (1 - gapY * (rows - 1)) / rows;
         var traces = new JsonArray();
         var layout = Theme.Layout($"Per-class reliability ({split} split) — classwise ECE {Html.Pct(r.ClasswiseEce)}; each panel's title gives that class's ECE",
-            "", "", height: 110 + 250 * rows);
+            "", "", height: 130 + 290 * rows);
         layout.Remove("xaxis");
         layout.Remove("yaxis");
         layout["showlegend"] = false;
-        layout["margin"]!["t"] = 96;
+        layout["margin"]!["t"] = Theme.TwoLineTop + 26;   // the top row's panel titles sit between the chart title and the panels
         var notes = new JsonArray();
         for (int c = 0; c < k; c++)
         {
