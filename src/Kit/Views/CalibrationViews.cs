@@ -17,7 +17,7 @@ public static class CalibrationViews
         var traces = new JsonArray
         {
             Figure.Diagonal(),
-            Gaps(r.Bins, "x", "y", Theme.Bad),
+            Gaps(r.Bins, "x", "y", GapColour),
             Points(r.Bins, "observed accuracy", Theme.Colour(0), "x", "y", "confidence"),
             new JsonObject
             {
@@ -41,7 +41,7 @@ public static class CalibrationViews
         layout["yaxis2"] = y2;
         return new ChartView($"Reliability ({scheme})", traces, layout)
         {
-            Caption = $"{r.Bins.Count} {scheme} bins. Red segments: each bin's gap between confidence and accuracy; ECE is their row-weighted mean, MCE the largest.",
+            Caption = $"{r.Bins.Count} {scheme} bins. Grey segments: each bin's gap between confidence and accuracy; ECE is their row-weighted mean, MCE the largest.",
         };
     }
 
@@ -81,7 +81,7 @@ public static class CalibrationViews
             layout["yaxis" + suffix] = yAxis;
             var cls = r.PerClass[c];
             traces.Add(Figure.Diagonal(xa, ya, showLegend: false));
-            traces.Add(Gaps(cls.Bins, xa, ya, Theme.Bad));
+            traces.Add(Gaps(cls.Bins, xa, ya, GapColour));
             traces.Add(Points(cls.Bins, cls.Class, Theme.Colour(c), xa, ya, "p(" + cls.Class + ")"));
             notes.Add(new JsonObject
             {
@@ -125,6 +125,9 @@ public static class CalibrationViews
         }, "Before and after temperature scaling");
         return new StackView("Temperature scaling", new IView[] { chart, new TextView("", table) });
     }
+
+    /// <summary>Neutral, so a gap never reads as one of the class colours in the small multiples.</summary>
+    const string GapColour = "rgba(31,41,51,0.45)";
 
     static string SchemeName(BinningScheme s) => s == BinningScheme.EqualMass ? "equal-mass" : "equal-width";
 

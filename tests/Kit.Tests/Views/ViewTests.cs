@@ -154,15 +154,17 @@ public class ViewTests
     {
         var p = S.Sequences();
         var data = FigureChecks.Parse(ProjectionViews.Sequences(p)).Data;
-        var classTraces = data.Where(t => t!["legendgroup"]!.GetValue<string>() == "class").ToArray();
-        Assert.Equal(ViewSamples.Names.Length, classTraces.Length);
+        var classTraces = data.Where(t => t!["legendgroup"]!.GetValue<string>().StartsWith("class:", StringComparison.Ordinal)).ToArray();
         Assert.Equal(p.Points.Count, classTraces.Sum(t => t!["x"]!.AsArray().Count));
-        int crosses = classTraces.Sum(t => t!["marker"]!["symbol"]!.AsArray().Count(s => s!.GetValue<string>() == "x"));
+        int crosses = classTraces.Where(t => t!["marker"]!["symbol"]!.GetValue<string>() == "x").Sum(t => t!["x"]!.AsArray().Count);
         Assert.Equal(S.Labels.Zip(S.Metrics.Predicted).Count(z => z.First != z.Second), crosses);
         var texts = classTraces.SelectMany(t => t!["text"]!.AsArray().Select(s => s!.GetValue<string>())).ToArray();
         Assert.Contains("&lt;/script&gt;&lt;b&gt;bold&lt;/b&gt;.example", texts);
+        // One legend entry per class, and it is never the cross that means "wrong".
+        var entries = classTraces.Where(t => t!["showlegend"]!.GetValue<bool>()).ToArray();
         Assert.Equal(ViewSamples.Names.Select(Figure.Text).Order(StringComparer.Ordinal),
-            classTraces.Select(t => t!["name"]!.GetValue<string>()).Order(StringComparer.Ordinal));
+            entries.Select(t => t!["name"]!.GetValue<string>()).Order(StringComparer.Ordinal));
+        Assert.All(entries, t => Assert.Equal("circle", t!["marker"]!["symbol"]!.GetValue<string>()));
     }
 
     [Fact]
