@@ -1,3 +1,4 @@
+using Kit.Common;
 using System.Diagnostics;
 using Kit.Data;
 using Kit.Diagnostics;
@@ -65,7 +66,7 @@ public static class SingleRun
     internal static int[] StratifiedSample(int[] labels, int n, ulong seed)
     {
         double fraction = n / (double)labels.Length;
-        var rng = new Kit.Batching.SplitMix64(seed);
+        var rng = new SplitMix64(seed);
         var picked = new List<int>();
         foreach (var cls in labels.Distinct().OrderBy(c => c))
         {

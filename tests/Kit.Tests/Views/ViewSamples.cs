@@ -1,3 +1,4 @@
+using Kit.Common;
 using Kit.Data;
 using Kit.Diagnostics;
 using Kit.Training;
@@ -22,7 +23,7 @@ internal sealed class ViewSamples
 
     public ViewSamples(int n = 240, ulong seed = 7)
     {
-        var rng = new SeededRandom(seed);
+        var rng = new SplitMix64(seed);
         Labels = new int[n];
         Logits = new double[n][];
         Texts = new string[n];
@@ -61,7 +62,7 @@ internal sealed class ViewSamples
 
     public Projection Sequences(ProjectionMethod method = ProjectionMethod.Pca)
     {
-        var rng = new SeededRandom(11);
+        var rng = new SplitMix64(11);
         var x = Labels.Select(l => Enumerable.Range(0, 6).Select(d => rng.NextGaussian() + (d == l ? 3 : 0)).ToArray()).ToArray();
         return Projection.OfSequences(x, Labels, Names, method, Metrics.Predicted, Texts,
             new TsneOptions { Iterations = 120, ExaggerationIterations = 50, MomentumSwitchIteration = 50, Perplexity = 10 });
@@ -69,7 +70,7 @@ internal sealed class ViewSamples
 
     public static Projection Tokens()
     {
-        var rng = new SeededRandom(5);
+        var rng = new SplitMix64(5);
         string[] tokens = { "a", "b", "c", "d", "1", "2", ".", "-", " ", Hostile };
         return Projection.OfTokens(tokens.Select(_ => Enumerable.Range(0, 4).Select(_ => rng.NextGaussian()).ToArray()).ToArray(), tokens, ProjectionMethod.Pca);
     }
