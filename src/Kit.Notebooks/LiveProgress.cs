@@ -16,6 +16,13 @@ public static class LiveProgress
     /// <summary>For a training layer with its own progress record: map it to a snapshot once, here.</summary>
     public static LiveProgress<T> Start<T>(Func<T, ProgressSnapshot> map, string title = "Training", TimeProvider? time = null) =>
         new(map, title, time);
+
+    /// <summary>The display for the kit's own training loop (<see cref="Kit.Training.Trainer"/>, <c>SingleRun</c>).</summary>
+    public static LiveProgress<Kit.Training.TrainingProgress> ForTraining(string title = "Training", TimeProvider? time = null) =>
+        new(FromTraining, title, time);
+
+    public static ProgressSnapshot FromTraining(Kit.Training.TrainingProgress p) =>
+        new(p.Epoch, p.Epochs, p.Batch, p.Batches, p.Loss, p.ValidationAccuracy, p.Eta, "validation accuracy");
 }
 
 /// <summary>

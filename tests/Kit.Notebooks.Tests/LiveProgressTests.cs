@@ -22,6 +22,17 @@ public class LiveProgressTests
     }
 
     [Fact]
+    public void Training_progress_maps_to_a_snapshot_field_by_field()
+    {
+        var p = new Kit.Training.TrainingProgress(2, 5, 7, 9, 0.375, 0.8125, TimeSpan.FromSeconds(12));
+        var s = LiveProgress.FromTraining(p);
+        Assert.Equal(new ProgressSnapshot(2, 5, 7, 9, 0.375, 0.8125, TimeSpan.FromSeconds(12), "validation accuracy"), s);
+        var live = LiveProgress.ForTraining("t", new ManualClock());
+        live.Report(p);
+        Assert.Equal(s, live.Last);
+    }
+
+    [Fact]
     public void Time_left_scales_elapsed_time_by_the_share_still_to_do()
     {
         var clock = new ManualClock();

@@ -1,3 +1,4 @@
+using Kit.Common;
 using System.Diagnostics;
 using System.Globalization;
 using System.Text;

@@ -1,3 +1,4 @@
+using Kit.Common;
 using Kit.Data;
 
 namespace Kit.Bench.Training;
@@ -9,11 +10,11 @@ internal static class TrainingBenchData
 
     public static EncodedSet Make(int rows, int length, ulong seed)
     {
-        var rng = new Kit.Batching.SplitMix64(seed);
+        var rng = new SplitMix64(seed);
         var tokens = new int[rows * length];
-        for (int i = 0; i < tokens.Length; i++) tokens[i] = 2 + rng.Below(Vocabulary - 2);
+        for (int i = 0; i < tokens.Length; i++) tokens[i] = 2 + rng.NextInt(Vocabulary - 2);
         var offsets = Enumerable.Range(0, rows + 1).Select(r => r * length).ToArray();
-        var labels = Enumerable.Range(0, rows).Select(_ => rng.Below(Classes)).ToArray();
+        var labels = Enumerable.Range(0, rows).Select(_ => rng.NextInt(Classes)).ToArray();
         return new EncodedSet(tokens, offsets, labels);
     }
 

@@ -14,12 +14,13 @@ internal static class DemoCommand
         var outOption = new Option<string>("--out") { Description = "Folder for report.html", DefaultValueFactory = _ => "demo-out" };
         var quick = new Option<bool>("--quick") { Description = "A smaller sample and fewer epochs (about a minute on 2 cores)" };
         var data = new Option<string?>("--data") { Description = "Demo data folder (default: data-demo found from the current folder upwards)" };
-        var command = new Command("demo", "Train a character GRU on the demo hostnames and write a self-contained report.") { outOption, quick, data };
-        command.SetAction(parse => CliErrors.Guard(() => Run(parse.GetValue(outOption)!, parse.GetValue(quick), parse.GetValue(data))));
+        var images = new Option<bool>("--images") { Description = "Also save every chart as SVG and PNG, and the report as PNG and PDF (needs a local Chromium)" };
+        var command = new Command("demo", "Train a character GRU on the demo hostnames and write a self-contained report.") { outOption, quick, data, images };
+        command.SetAction(parse => CliErrors.Guard(() => Run(parse.GetValue(outOption)!, parse.GetValue(quick), parse.GetValue(data), parse.GetValue(images))));
         return command;
     }
 
-    static int Run(string outDir, bool quick, string? dataDir)
+    static int Run(string outDir, bool quick, string? dataDir, bool images = false)
     {
         string folder = dataDir ?? DemoDataLocator.Find();
         var spec = Spec(Path.Combine(folder, Kit.DemoData.DemoFiles.Hostnames), quick);
@@ -27,12 +28,12 @@ internal static class DemoCommand
         Console.Error.WriteLine($"demo: {(quick ? "quick" : "full")} run on {spec.DataPath}");
         var run = SingleRun.Execute(spec, new ConsoleProgress());
         Directory.CreateDirectory(outDir);
-        string report = Path.Combine(outDir, "report.html");
-        ReportWriter.Write(report, "Hostname triage — character GRU",
+        var export = ReportExport.WriteReport(outDir, "Hostname triage — character GRU",
             $"Invented demo data ({run.Labels.Count} generator families). Test split: accuracy {run.TestMetrics.Accuracy:P1}, macro F1 {run.TestMetrics.MacroF1:F3}.",
-            RunReport.Views(run));
+            RunReport.Views(run), images);
         Console.WriteLine($"test accuracy {run.TestMetrics.Accuracy:P2}, macro F1 {run.TestMetrics.MacroF1:F3}");
-        Console.WriteLine($"wrote {report}");
+        Console.WriteLine($"wrote {export.Files[0]}");
+        if (images) Console.WriteLine(export.Message);
         return 0;
     }
 

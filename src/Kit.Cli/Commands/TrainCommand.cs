@@ -198,10 +198,25 @@ internal static class RunMetricsJson
             for (int j = 0; j < names.Count; j++) row.Add(m.Confusion[i, j]);
             confusion.Add(row);
         }
+        // The headline numbers of the test split under stable snake_case names, for scripts that diff runs.
+        double ece = double.NaN, eceAfter = double.NaN;
+        if (run.Test.Count > 0)
+        {
+            ece = CalibrationReport.Compute(run.Test.Labels, run.TestProbabilities, names, bootstrap: 0).Ece;
+            if (temperature is double tt)
+                eceAfter = CalibrationReport.Compute(run.Test.Labels, Scoring.Softmax(run.TestLogits, tt), names, bootstrap: 0).Ece;
+        }
         var root = new JsonObject
         {
             ["format"] = "kit-metrics",
             ["version"] = 1,
+            ["accuracy"] = Num(m.Accuracy),
+            ["macro_f1"] = Num(m.MacroF1),
+            ["log_loss"] = Num(m.LogLoss),
+            ["brier"] = Num(m.Brier),
+            ["ece"] = Num(ece),
+            ["temperature"] = temperature is double t0 ? Num(t0) : null,
+            ["ece_after_temperature"] = Num(eceAfter),
             ["data"] = new JsonObject
             {
                 ["file"] = Path.GetFileName(s.DataPath),

@@ -42,9 +42,23 @@ public static class PackedRecurrence
         if (cpuLengths.min().item<long>() < 1 || cpuLengths.max().item<long>() > steps)
             throw new ArgumentException($"every length must be in 1..{steps} (the batch's step count)");
 
-        using var packed = pack_padded_sequence(embedded, cpuLengths, batch_first: true, enforce_sorted: false);
         Tensor outputs, hidden;
         Tensor? cellState = null;
+        // No row is padded: the dense call computes exactly what the packed one would, without the engine's
+        // sort, gather and unpack around every batch (the common case for fixed-length codes and for length buckets).
+        if (cpuLengths.min().item<long>() == steps)
+        {
+            switch (cell)
+            {
+                case GRU gru: (outputs, hidden) = gru.call(embedded, null); break;
+                case LSTM lstm: { var (o, h, c) = lstm.call(embedded, null); outputs = o; hidden = h; cellState = c; break; }
+                case RNN rnn: (outputs, hidden) = rnn.call(embedded, null); break;
+                default: throw new ArgumentException($"PackedRecurrence runs GRU, LSTM or RNN modules, not {cell.GetType().Name}");
+            }
+            return new RecurrenceResult(outputs.MoveToOuterDisposeScope(), hidden.MoveToOuterDisposeScope(), cellState?.MoveToOuterDisposeScope());
+        }
+
+        using var packed = pack_padded_sequence(embedded, cpuLengths, batch_first: true, enforce_sorted: false);
         switch (cell)
         {
             case GRU gru:

@@ -1,3 +1,4 @@
+using Kit.Common;
 using Kit.Data;
 
 namespace Kit.Batching;

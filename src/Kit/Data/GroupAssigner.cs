@@ -1,3 +1,4 @@
+using Kit.Common;
 namespace Kit.Data;
 
 /// <summary>

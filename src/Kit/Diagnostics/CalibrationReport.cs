@@ -1,3 +1,4 @@
+using Kit.Common;
 using Microsoft.Data.Analysis;
 
 namespace Kit.Diagnostics;
@@ -63,7 +64,7 @@ public sealed record CalibrationReport
         var interval = (double.NaN, double.NaN);
         if (bootstrap > 0)
         {
-            var rng = new SeededRandom(seed);
+            var rng = new SplitMix64(seed);
             var replicates = new double[bootstrap];
             var weights = new int[n];
             for (int r = 0; r < bootstrap; r++)

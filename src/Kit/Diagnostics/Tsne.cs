@@ -1,3 +1,4 @@
+using Kit.Common;
 using System.Diagnostics;
 
 namespace Kit.Diagnostics;
@@ -44,7 +45,7 @@ public static class Tsne
             for (int i = 0; i < n; i++) { y[2 * i] = coords[i][0] * scale; y[2 * i + 1] = coords[i][1] * scale; }
             return y;
         }
-        var rng = new SeededRandom(options.Seed);
+        var rng = new SplitMix64(options.Seed);
         for (int i = 0; i < y.Length; i++) y[i] = 1e-4 * rng.NextGaussian();
         return y;
     }

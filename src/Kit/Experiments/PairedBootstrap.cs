@@ -1,3 +1,4 @@
+using Kit.Common;
 namespace Kit.Experiments;
 
 /// <summary>
@@ -22,12 +23,12 @@ public static class PairedBootstrap
         var diff = new int[n];
         for (int i = 0; i < n; i++) diff[i] = (correctA[i] ? 1 : 0) - (correctB[i] ? 1 : 0);
         double observed = diff.Sum() / (double)n;
-        var rng = new Kit.Batching.SplitMix64(seed);
+        var rng = new SplitMix64(seed);
         var values = new double[replicates];
         for (int r = 0; r < replicates; r++)
         {
             long s = 0;
-            for (int i = 0; i < n; i++) s += diff[rng.Below(n)];
+            for (int i = 0; i < n; i++) s += diff[rng.NextInt(n)];
             values[r] = s / (double)n;
         }
         Array.Sort(values);

@@ -32,6 +32,8 @@ public sealed record RunDiagnostics
     public required ErrorAnalysis Errors { get; init; }
     public required IReadOnlyList<OcclusionCase> Occlusions { get; init; }
     public required DiagnosticsOptions Options { get; init; }
+    /// <summary>Wall time spent computing these records (the t-SNE usually dominates).</summary>
+    public TimeSpan Elapsed { get; init; }
 
     /// <summary>Fewer test rows than this and a t-SNE picture shows noise, so none is drawn.</summary>
     public const int MinProjectedRows = 20;
@@ -41,6 +43,7 @@ public sealed record RunDiagnostics
         ArgumentNullException.ThrowIfNull(run);
         options ??= run.Spec.Diagnostics;
         options.Validate();
+        var clock = System.Diagnostics.Stopwatch.StartNew();
         var names = run.Labels.Names;
         var split = run.Split;
         var used = run.Table.Subset(run.Rows);
@@ -83,7 +86,10 @@ public sealed record RunDiagnostics
         if (take >= MinProjectedRows)
         {
             stages?.Report($"t-SNE of {take} pooled test representations");
-            int[] sample = take < run.Test.Count ? SingleRun.StratifiedSample(labels, take, options.Seed) : Enumerable.Range(0, run.Test.Count).ToArray();
+            // Stratified rounding can add up to one row per class, so ask for that many fewer and cap at the budget.
+            int[] sample = take < run.Test.Count
+                ? SingleRun.StratifiedSample(labels, Math.Max(1, take - names.Count), options.Seed).Take(take).ToArray()
+                : Enumerable.Range(0, run.Test.Count).ToArray();
             var subset = run.Test.Subset(sample);
             var pooled = ModelReadout.Pooled(run.Model, subset);
             var texts = run.TestTexts();
@@ -110,6 +116,7 @@ public sealed record RunDiagnostics
             Profile = profile, Split = splitSummary, Leakage = leakage, Coverage = coverage, TestLengths = testLengths, ByLength = byLength,
             Calibration = calibration, CalibrationEqualMass = equalMass, Temperature = temperature, CalibrationAfterScaling = after,
             Embedding = embedding, TestRepresentations = representations, Errors = errors, Occlusions = occlusions, Options = options,
+            Elapsed = clock.Elapsed,
         };
     }
 

@@ -1,3 +1,4 @@
+using Kit.Common;
 using System.Diagnostics;
 using Kit.Data;
 using Kit.Diagnostics;
@@ -54,46 +55,18 @@ public static class SingleRun
             ? StratifiedSample(table.Labels.Select(l => labels[l]).ToArray(), n, spec.SplitSeed)
             : Enumerable.Range(0, table.Count).ToArray();
         int[] y = rows.Select(r => labels[table.Labels[r]]).ToArray();
-
         Split split = spec.GroupAware && table.Groups is not null
             ? Splitter.GroupHoldout(y, rows.Select(r => table.Groups[r]).ToArray(), spec.TrainFraction, spec.ValidationFraction, spec.TestFraction, spec.SplitSeed)
             : Splitter.StratifiedHoldout(y, spec.TrainFraction, spec.ValidationFraction, spec.TestFraction, spec.SplitSeed);
 
-        var tokenizer = spec.CreateTokenizer();
-        var texts = rows.Select(r => table.Texts[r]).ToArray();
-        var vocab = Vocabulary.Build(split.Train.Select(i => tokenizer.Split(texts[i])), spec.MinTokenCount);
-        var (all, truncation) = Encoder.Encode(texts, y, tokenizer, vocab, spec.MaxLength, spec.Truncation);
-        // SourceRows point back into the table so error analysis can show the original text and line.
-        var encoded = new EncodedSet(all.Tokens, all.Offsets, all.Labels, rows);
-        var train = encoded.Subset(split.Train);
-        var validation = encoded.Subset(split.Validation);
-        var test = encoded.Subset(split.Test);
-
-        Kit.Native.Engine.EnsureLoaded();
-        var config = new ClassifierConfig(vocab.Count, labels.Count, spec.Cell, spec.EmbeddingSize, spec.HiddenSize, spec.Layers,
-            spec.Bidirectional, Pooling: spec.Pooling);
-        TorchSharp.torch.manual_seed((long)(spec.Training.Seed & 0x7FFF_FFFF_FFFF_FFFF));
-        var model = config.Build();
-        var history = Trainer.Fit(model, train, validation, spec.Training, progress, cancel);
-
-        var valLogits = Scoring.Logits(model, validation);
-        var testLogits = Scoring.Logits(model, test);
-        var testProbs = Scoring.Softmax(testLogits);
-        var metrics = ClassificationMetrics.Compute(test.Labels, testProbs, labels.Names);
-        return new RunOutcome
-        {
-            Spec = spec, Table = table, Rows = rows, Split = split, Labels = labels, Tokenizer = tokenizer, Vocabulary = vocab,
-            Config = config, Model = model, History = history, Validation = validation, Test = test,
-            ValidationLogits = valLogits, TestLogits = testLogits, TestProbabilities = testProbs, TestMetrics = metrics,
-            Truncation = truncation, Elapsed = clock.Elapsed,
-        };
+        return FoldRun.Execute(spec, table, rows, split, progress, cancel, clock);
     }
 
     /// <summary>A class-stratified, seeded sample of about <paramref name="n"/> row indices (every class keeps ≥ 1).</summary>
     internal static int[] StratifiedSample(int[] labels, int n, ulong seed)
     {
         double fraction = n / (double)labels.Length;
-        var rng = new Kit.Batching.SplitMix64(seed);
+        var rng = new SplitMix64(seed);
         var picked = new List<int>();
         foreach (var cls in labels.Distinct().OrderBy(c => c))
         {

@@ -1,3 +1,4 @@
+using Kit.Common;
 using System.Diagnostics;
 using Kit.Batching;
 using Kit.Data;
@@ -227,7 +228,7 @@ public static class Trainer
     }
 
     /// <summary>The engine seed for one epoch, mixed from the run seed so neighbouring epochs are unrelated.</summary>
-    internal static long EpochSeed(ulong seed, int epoch) => (long)(Kit.Batching.SplitMix64.ForEpoch(seed ^ 0x5EED_0F_7124_1A11UL, epoch).Next() & 0x7FFF_FFFF_FFFF_FFFF);
+    internal static long EpochSeed(ulong seed, int epoch) => (long)(SplitMix64.ForEpoch(seed ^ 0x5EED_0F_7124_1A11UL, epoch).Next() & 0x7FFF_FFFF_FFFF_FFFF);
 
     static Dictionary<string, Tensor> Snapshot(SequenceClassifier model)
     {

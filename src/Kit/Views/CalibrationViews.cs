@@ -17,7 +17,7 @@ public static class CalibrationViews
         var traces = new JsonArray
         {
             Figure.Diagonal(),
-            Gaps(r.Bins, "x", "y", Theme.Bad),
+            Gaps(r.Bins, "x", "y", GapColour),
             Points(r.Bins, "observed accuracy", Theme.Colour(0), "x", "y", "confidence"),
             new JsonObject
             {
@@ -41,7 +41,7 @@ public static class CalibrationViews
         layout["yaxis2"] = y2;
         return new ChartView($"Reliability ({scheme})", traces, layout)
         {
-            Caption = $"{r.Bins.Count} {scheme} bins. Red segments: each bin's gap between confidence and accuracy; ECE is their row-weighted mean, MCE the largest.",
+            Caption = $"{r.Bins.Count} {scheme} bins. Grey segments: each bin's gap between confidence and accuracy; ECE is their row-weighted mean, MCE the largest.",
         };
     }
 
@@ -50,15 +50,16 @@ public static class CalibrationViews
     {
         int k = r.PerClass.Count;
         int cols = Math.Min(4, k), rows = (k + cols - 1) / cols;
-        const double gapX = 0.06, gapY = 0.11;
+        // Rows need room for the x titles of one row plus the panel titles of the next.
+        const double gapX = 0.06, gapY = 0.2;
         double w = (1 - gapX * (cols - 1)) / cols, h = (1 - gapY * (rows - 1)) / rows;
         var traces = new JsonArray();
         var layout = Theme.Layout($"Per-class reliability ({split} split) — classwise ECE {Html.Pct(r.ClasswiseEce)}; each panel's title gives that class's ECE",
-            "", "", height: 110 + 250 * rows);
+            "", "", height: 130 + 290 * rows);
         layout.Remove("xaxis");
         layout.Remove("yaxis");
         layout["showlegend"] = false;
-        layout["margin"]!["t"] = 96;
+        layout["margin"]!["t"] = Theme.TwoLineTop + 26;   // the top row's panel titles sit between the chart title and the panels
         var notes = new JsonArray();
         for (int c = 0; c < k; c++)
         {
@@ -80,7 +81,7 @@ public static class CalibrationViews
             layout["yaxis" + suffix] = yAxis;
             var cls = r.PerClass[c];
             traces.Add(Figure.Diagonal(xa, ya, showLegend: false));
-            traces.Add(Gaps(cls.Bins, xa, ya, Theme.Bad));
+            traces.Add(Gaps(cls.Bins, xa, ya, GapColour));
             traces.Add(Points(cls.Bins, cls.Class, Theme.Colour(c), xa, ya, "p(" + cls.Class + ")"));
             notes.Add(new JsonObject
             {
@@ -124,6 +125,9 @@ public static class CalibrationViews
         }, "Before and after temperature scaling");
         return new StackView("Temperature scaling", new IView[] { chart, new TextView("", table) });
     }
+
+    /// <summary>Neutral, so a gap never reads as one of the class colours in the small multiples.</summary>
+    const string GapColour = "rgba(31,41,51,0.45)";
 
     static string SchemeName(BinningScheme s) => s == BinningScheme.EqualMass ? "equal-mass" : "equal-width";
 

@@ -27,7 +27,7 @@ public static class DataViews
             {
                 k.Name, k.Rows.ToString("N0", Inv), Html.Pct(k.Proportion), k.Lengths.Min.ToString(Inv), Html.Num(k.Lengths.Median, 1),
                 Html.Num(k.Lengths.P90, 1), k.Lengths.Max.ToString(Inv),
-            }), "Per class (token lengths before truncation)");
+            }), "Per class (token lengths before truncation)", textColumns: new[] { 0 });
         return new StackView("Dataset profile", new IView[] { new TextView("", overview + perClass), ClassBalance(p), LengthHistogram(p) });
     }
 

@@ -16,7 +16,7 @@ public static class ErrorViews
             e.ConfusedPairs.Select(p => (IReadOnlyList<string>)new[]
             {
                 p.TrueClass, p.PredictedClass, Html.Count(p.Count), Html.Pct(p.ShareOfTrueClass), string.Join("  ·  ", p.Examples.Select(x => x.Text)),
-            }), "Most frequent confusions", numericRight: true));
+            }), "Most frequent confusions", textColumns: new[] { 0, 1, 4 }));
         return new TextView("Error analysis", sb.ToString());
     }
 
@@ -26,5 +26,5 @@ public static class ErrorViews
             {
                 r.Index.ToString(System.Globalization.CultureInfo.InvariantCulture), r.Text, r.TrueClass, r.PredictedClass,
                 Html.Num(r.Confidence), Html.Num(r.TrueClassProbability), Html.Num(r.Loss, 2),
-            }), caption);
+            }), caption, textColumns: new[] { 1, 2, 3 });
 }

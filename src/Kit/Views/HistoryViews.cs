@@ -17,7 +17,7 @@ public static class HistoryViews
             Line("train accuracy", epochs, Series(e => e.TrainAccuracy), 1, "y2", dash: "solid"),
             Line("validation accuracy", epochs, Series(e => e.ValidationAccuracy), 1, "y2", dash: "dot"),
         };
-        var layout = Theme.Layout(title ?? $"Training curves — best validation accuracy at epoch {history.BestEpoch}", "epoch", "cross-entropy loss (nats)");
+        var layout = Theme.Layout(title ?? $"Training curves — best validation accuracy at epoch {history.BestEpoch}", "epoch", "cross-entropy loss (nats)", height: 420);
         var y2 = Theme.Axis("accuracy (fraction correct)");
         y2["overlaying"] = "y";
         y2["side"] = "right";
@@ -28,7 +28,7 @@ public static class HistoryViews
         // The right-hand accuracy axis takes the space a side legend would use, so this legend sits underneath.
         layout["legend"] = new JsonObject { ["orientation"] = "h", ["x"] = 0.0, ["xanchor"] = "left", ["y"] = -0.28, ["yanchor"] = "top" };
         layout["margin"]!["b"] = 96;
-        layout["height"] = 420;
+        layout["margin"]!["r"] = 72;   // room for the right-hand axis title
         layout["shapes"] = new JsonArray(new JsonObject
         {
             ["type"] = "line", ["xref"] = "x", ["yref"] = "paper", ["x0"] = history.BestEpoch, ["x1"] = history.BestEpoch,

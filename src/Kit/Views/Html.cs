@@ -18,8 +18,14 @@ public static class Html
     /// <summary>A whole count with thousands separators, the same on every machine.</summary>
     public static string Count(long v) => v.ToString("N0", CultureInfo.InvariantCulture);
 
-    /// <summary>A plain table; the first row of <paramref name="rows"/> is data, headers come separately.</summary>
-    public static string Table(IReadOnlyList<string> headers, IEnumerable<IReadOnlyList<string>> rows, string? caption = null, bool numericRight = true)
+    /// <summary>
+    /// A plain table; the first row of <paramref name="rows"/> is data, headers come separately. Cells that read
+    /// as numbers (digits with optional sign, separators, decimals and a percent sign, or "–") are right-aligned
+    /// unless their column is listed in <paramref name="textColumns"/> (texts such as hostnames or tokens, which
+    /// may happen to be digits).
+    /// </summary>
+    public static string Table(IReadOnlyList<string> headers, IEnumerable<IReadOnlyList<string>> rows, string? caption = null, bool numericRight = true,
+        IReadOnlyCollection<int>? textColumns = null)
     {
         var sb = new StringBuilder("<table class=\"kit-table\">");
         if (caption is not null) sb.Append("<caption>").Append(Escape(caption)).Append("</caption>");
@@ -29,13 +35,19 @@ public static class Html
         foreach (var row in rows)
         {
             sb.Append("<tr>");
-            foreach (var cell in row)
+            for (int c = 0; c < row.Count; c++)
             {
-                bool numeric = numericRight && cell.Length > 0 && (char.IsDigit(cell[0]) || cell[0] == '-' || cell[0] == '–');
+                string cell = row[c];
+                bool numeric = numericRight && textColumns?.Contains(c) != true && LooksNumeric(cell);
                 sb.Append(numeric ? "<td class=\"num\">" : "<td>").Append(Escape(cell)).Append("</td>");
             }
             sb.Append("</tr>");
         }
         return sb.Append("</tbody></table>").ToString();
     }
+
+    static readonly System.Text.RegularExpressions.Regex NumberPattern =
+        new(@"^(–|[-+]?[\d,]*\.?\d+( ?%)?)$", System.Text.RegularExpressions.RegexOptions.CultureInvariant);
+
+    internal static bool LooksNumeric(string cell) => cell.Length > 0 && NumberPattern.IsMatch(cell);
 }

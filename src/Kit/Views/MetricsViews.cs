@@ -20,7 +20,7 @@ public static class MetricsViews
         string headline = Html.Table(new[] { "metric", split }, rows, $"Headline metrics on the {split} split");
         string perClass = Html.Table(new[] { "class", "precision", "recall", "F1", "support" },
             m.PerClass.Select(c => (IReadOnlyList<string>)new[] { c.Class, Html.Num(c.Precision), Html.Num(c.Recall), Html.Num(c.F1), c.Support.ToString() }),
-            "Per class");
+            "Per class", textColumns: new[] { 0 });
         return new TextView($"Metrics ({split} split)", headline + perClass);
     }
 
@@ -87,6 +87,8 @@ public static class MetricsViews
         var layout = Theme.Layout(title, "predicted class", "true class", height: 120 + 46 * k);
         layout["yaxis"]!["autorange"] = "reversed";
         layout["xaxis"]!["tickangle"] = -30;
+        layout["xaxis"]!["showgrid"] = false;
+        layout["yaxis"]!["showgrid"] = false;
         return new ChartView(normalised ? "Confusion matrix (normalised)" : "Confusion matrix (counts)", new JsonArray(trace), layout);
     }
 }

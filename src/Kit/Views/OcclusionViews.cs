@@ -42,7 +42,7 @@ public static class OcclusionViews
             top.Select(p => (IReadOnlyList<string>)new[]
             {
                 p.Position.ToString(Inv), ProjectionViews.Visible(pieces[p.Position]), Html.Num(p.OccludedProbability), Html.Num(p.Drop),
-            }), "Positions that matter most"));
+            }), "Positions that matter most", textColumns: new[] { 1 }));
         return new TextView(heading ?? $"Occlusion for class {targetClass}", sb.ToString());
     }
 

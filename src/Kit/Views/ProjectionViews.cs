@@ -38,28 +38,36 @@ public static class ProjectionViews
         var classes = p.Points.Select(q => q.Label ?? "").Distinct(StringComparer.Ordinal).Order(StringComparer.Ordinal).ToArray();
         for (int c = 0; c < classes.Length; c++)
         {
-            var pts = p.Points.Where(q => (q.Label ?? "") == classes[c]).ToArray();
-            traces.Add(new JsonObject
+            // Right and wrong rows of a class are two traces in one legend group, so the class's legend entry
+            // shows a plain circle (never the cross that means "wrong") and one click hides both.
+            var members = p.Points.Where(q => (q.Label ?? "") == classes[c]).ToArray();
+            bool legendShown = false;
+            foreach (var wrongRows in new[] { false, true })
             {
-                ["type"] = "scatter", ["mode"] = "markers", ["name"] = Figure.Text(classes[c]), ["legendgroup"] = "class",
-                ["x"] = Figure.Numbers(pts.Select(q => q.X)), ["y"] = Figure.Numbers(pts.Select(q => q.Y)),
-                ["text"] = Figure.Texts(pts.Select(q => Visible(q.Text))),
-                ["customdata"] = new JsonArray(pts.Select(q => (JsonNode?)(q.Correct switch { true => "right", false => "wrong", null => "not scored" })).ToArray()),
-                ["marker"] = new JsonObject
+                var pts = members.Where(q => (q.Correct == false) == wrongRows).ToArray();
+                if (pts.Length == 0) continue;
+                traces.Add(new JsonObject
                 {
-                    ["color"] = Theme.Colour(c), ["size"] = 6, ["opacity"] = 0.8,
-                    ["symbol"] = new JsonArray(pts.Select(q => (JsonNode?)(q.Correct == false ? "x" : "circle")).ToArray()),
-                    ["line"] = new JsonObject { ["width"] = 0 },
-                },
-                ["hovertemplate"] = $"%{{text}}<br>true class {Figure.Text(classes[c])}<br>prediction %{{customdata}}<extra></extra>",
-            });
+                    ["type"] = "scatter", ["mode"] = "markers", ["name"] = Figure.Text(classes[c]), ["legendgroup"] = $"class:{c}",
+                    ["showlegend"] = !legendShown, ["legendrank"] = c + 1,
+                    ["x"] = Figure.Numbers(pts.Select(q => q.X)), ["y"] = Figure.Numbers(pts.Select(q => q.Y)),
+                    ["text"] = Figure.Texts(pts.Select(q => Visible(q.Text))),
+                    ["marker"] = new JsonObject
+                    {
+                        ["color"] = Theme.Colour(c), ["size"] = wrongRows ? 8 : 6, ["opacity"] = wrongRows ? 0.95 : 0.75,
+                        ["symbol"] = wrongRows ? "x" : "circle", ["line"] = new JsonObject { ["width"] = 0 },
+                    },
+                    ["hovertemplate"] = $"%{{text}}<br>true class {Figure.Text(classes[c])}<br>prediction {(wrongRows ? "wrong" : pts[0].Correct is null ? "not scored" : "right")}<extra></extra>",
+                });
+                legendShown = true;
+            }
         }
         int wrong = p.Points.Count(q => q.Correct == false);
         // Two grey entries explain the symbols; they hold no points.
         foreach (var (name, symbol) in new[] { ("predicted right", "circle"), ("predicted wrong", "x") })
             traces.Add(new JsonObject
             {
-                ["type"] = "scatter", ["mode"] = "markers", ["name"] = name, ["legendgroup"] = "symbol", ["x"] = new JsonArray((JsonNode?)null),
+                ["type"] = "scatter", ["mode"] = "markers", ["name"] = name, ["legendgroup"] = "symbol", ["legendrank"] = 1000, ["x"] = new JsonArray((JsonNode?)null),
                 ["y"] = new JsonArray((JsonNode?)null), ["marker"] = Figure.Marker(Theme.Muted, 8, symbol), ["hoverinfo"] = "skip",
             });
         var (xTitle, yTitle) = AxisTitles(p);

@@ -12,7 +12,7 @@ public static class ReportWriter
 {
     public const string Css = """
         :root { --ink:#1F2933; --muted:#6B7785; --rule:#E4E7EB; --accent:#2E5E8C; }
-        body { font-family: 'Source Sans 3','Segoe UI','Helvetica Neue',Arial,sans-serif; color: var(--ink); margin: 0; background: #FBFCFD; }
+        body { font-family: Inter, Roboto, Helvetica, Arial, sans-serif; color: var(--ink); margin: 0; background: #FBFCFD; }
         main { max-width: 1040px; margin: 0 auto; padding: 24px 32px 48px; background: #FFFFFF; }
         header.kit-head { border-bottom: 3px solid var(--accent); margin-bottom: 16px; padding-bottom: 8px; }
         header.kit-head h1 { font-size: 24px; margin: 0 0 4px; }
@@ -20,6 +20,8 @@ public static class ReportWriter
         section.kit-section { margin: 28px 0; break-inside: avoid; }
         section.kit-section h2 { font-size: 17px; border-left: 4px solid var(--accent); padding-left: 8px; margin: 0 0 10px; }
         figure.kit-chart { margin: 0; }
+        /* The plot toolbar appears on hover only, so it never covers a title in a screenshot or on paper. */
+        .kit-plot .modebar-container { opacity: 0; transition: opacity .15s; } .kit-plot:hover .modebar-container { opacity: 1; }
         figure.kit-chart figcaption { color: var(--muted); font-size: 12px; margin-top: 4px; }
         table.kit-table { border-collapse: collapse; font-size: 13px; margin: 6px 0 12px; }
         table.kit-table caption { text-align: left; color: var(--muted); padding-bottom: 4px; }
@@ -34,7 +36,7 @@ public static class ReportWriter
         p.kit-legend { color: var(--muted); font-size: 12px; }
         p.kit-legend span.kit-token { color: var(--ink); padding: 1px 4px; }
         footer.kit-cautions { border-top: 1px solid var(--rule); margin-top: 36px; padding-top: 10px; color: var(--muted); font-size: 12px; }
-        @media print { body { background: #FFFFFF; } main { max-width: none; padding: 0; } section.kit-section { page-break-inside: avoid; } figure.kit-chart { page-break-inside: avoid; } }
+        @media print { body { background: #FFFFFF; } main { max-width: none; padding: 0; } section.kit-section { page-break-inside: avoid; } figure.kit-chart { page-break-inside: avoid; } .modebar-container { display: none; } }
         """;
 
     public static string Render(string title, string subtitle, IEnumerable<IView> views)

@@ -25,7 +25,7 @@ public static class RunReport
             new[] { "tokens", $"{run.Tokenizer.Name}, vocabulary {run.Vocabulary.Count} ids from the training part only (pad = 0, unknown = 1), max length {s.MaxLength}" },
             new[] { "model", $"{s.Cell} embedding {s.EmbeddingSize}, hidden {s.HiddenSize}, layers {s.Layers}{(s.Bidirectional ? ", bidirectional" : "")}, pooling {s.Pooling}; {run.Model.ParameterCount().ToString("N0", inv)} parameters" },
             new[] { "training", $"{run.History.Epochs.Count} epochs, batch {s.Training.BatchSize}, Adam lr {s.Training.LearningRate.ToString(inv)}, seed {s.Training.Seed}; best epoch {run.History.BestEpoch}{(run.History.StopReason is null ? "" : "; " + run.History.StopReason)}" },
-            new[] { "time", $"{run.Elapsed.TotalSeconds.ToString("F1", inv)} s on {Environment.ProcessorCount} cores" },
+            new[] { "time", $"{run.Elapsed.TotalSeconds.ToString("F1", inv)} s to train and score, {d.Elapsed.TotalSeconds.ToString("F1", inv)} s for the diagnostics, on {Environment.ProcessorCount} cores" },
         }, numericRight: false);
         var views = new List<IView>
         {

@@ -25,7 +25,11 @@ public static class Theme
     public const string Grid = "#E4E7EB";
     public const string Good = "#3C8D6E";
     public const string Bad = "#A8443A";
-    public const string FontStack = "'Source Sans 3', 'Segoe UI', 'Helvetica Neue', Arial, sans-serif";
+    /// <summary>
+    /// Single-word family names only: plotly.js writes the stack into SVG style attributes without re-quoting,
+    /// and a quoted name ("Segoe UI") there makes the exported SVG invalid XML (and its PNG fail to draw).
+    /// </summary>
+    public const string FontStack = "Inter, Roboto, Helvetica, Arial, sans-serif";
 
     /// <summary>Sequential scale from paper white to the deep blue, for counts and rates.</summary>
     public static JsonArray SequentialScale() => new(
@@ -37,21 +41,29 @@ public static class Theme
 
     public static string Colour(int i) => Palette[((i % Palette.Length) + Palette.Length) % Palette.Length];
 
+    /// <summary>Pixels from the chart's top edge to the middle of the title's first line.</summary>
+    public const double TitleLine = 20;
+    /// <summary>Top margins that clear a one-line and a two-line title.</summary>
+    public const int OneLineTop = 52, TwoLineTop = 76;
+
     /// <summary>Layout defaults for one chart. Title and axis titles are plain text (entity-encoded here).</summary>
     public static JsonObject Layout(string title, string xTitle, string yTitle, int height = 380)
     {
         return new JsonObject
         {
+            // Placed in pixels from the top edge: plotly anchors a two-line title by its first line, so an anchor
+            // at the top cuts that line and automatic margins leave the second over the plot in image export.
             ["title"] = new JsonObject
             {
-                ["text"] = TitleMarkup(title), ["x"] = 0.0, ["xanchor"] = "left", ["xref"] = "paper", ["y"] = 0.985, ["yanchor"] = "top", ["yref"] = "container",
+                ["text"] = TitleMarkup(title), ["x"] = 0.0, ["xanchor"] = "left", ["xref"] = "paper",
+                ["y"] = 1 - TitleLine / height, ["yanchor"] = "middle", ["yref"] = "container",
                 ["font"] = new JsonObject { ["size"] = 15, ["color"] = Ink },
             },
             ["font"] = new JsonObject { ["family"] = FontStack, ["size"] = 12, ["color"] = Ink },
             ["paper_bgcolor"] = "#FFFFFF",
             ["plot_bgcolor"] = "#FFFFFF",
             ["height"] = height,
-            ["margin"] = new JsonObject { ["l"] = 64, ["r"] = 24, ["t"] = 72, ["b"] = 56 },
+            ["margin"] = new JsonObject { ["l"] = 64, ["r"] = 24, ["t"] = title.Contains(" — ", StringComparison.Ordinal) ? TwoLineTop : OneLineTop, ["b"] = 56 },
             ["xaxis"] = Axis(xTitle),
             ["yaxis"] = Axis(yTitle),
             // Beside the plot, top right: it never collides with an axis title, however the ticks are turned.
@@ -74,7 +86,8 @@ public static class Theme
 
     public static JsonObject Axis(string title) => new()
     {
-        ["title"] = new JsonObject { ["text"] = Figure.Text(title) },
+        // The standoff keeps the title clear of long tick labels (class names) when margins grow to fit them.
+        ["title"] = new JsonObject { ["text"] = Figure.Text(title), ["standoff"] = 10 },
         ["gridcolor"] = Grid,
         ["zerolinecolor"] = Grid,
         ["linecolor"] = Muted,

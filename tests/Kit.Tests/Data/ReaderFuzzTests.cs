@@ -1,3 +1,4 @@
+using Kit.Common;
 using System.Text;
 using Kit.Data;
 

@@ -1,3 +1,4 @@
+using Kit.Common;
 using CsCheck;
 using Kit.Data;
 

@@ -1,3 +1,4 @@
+using Kit.Common;
 using Kit.Diagnostics;
 
 namespace Kit.Tests.Diagnostics;
@@ -88,7 +89,7 @@ public class CalibrationReportTests
     public void Labels_drawn_from_the_probabilities_are_well_calibrated()
     {
         var (_, probs) = Samples.Random(20000, 4, seed: 5);
-        var rng = new SeededRandom(99);
+        var rng = new SplitMix64(99);
         var labels = probs.Select(p => Draw(p, rng)).ToArray();
         var r = CalibrationReport.Compute(labels, probs, Samples.Classes(4), bootstrap: 200);
         Assert.InRange(r.Ece, 0, 0.02);
@@ -101,7 +102,7 @@ public class CalibrationReportTests
     public void Bootstrap_interval_covers_a_known_gap_and_repeats_with_its_seed()
     {
         // Confidence in [0.85, 0.95], correct with probability confidence − 0.3: every bin is off by 0.3.
-        var rng = new SeededRandom(7);
+        var rng = new SplitMix64(7);
         int n = 3000;
         var probs = new double[n][];
         var labels = new int[n];
@@ -130,12 +131,12 @@ public class CalibrationReportTests
         Assert.Contains("probabilities[0][0] = 2", e.Message);
     }
 
-    static int Draw(double[] p, SeededRandom rng)
+    static int Draw(double[] p, SplitMix64 rng)
     {
         double u = rng.NextDouble(), run = 0;
         for (int c = 0; c < p.Length; c++) { run += p[c]; if (u < run) return c; }
         return p.Length - 1;
     }
 
-    internal static int DrawFrom(double[] p, SeededRandom rng) => Draw(p, rng);
+    internal static int DrawFrom(double[] p, SplitMix64 rng) => Draw(p, rng);
 }

@@ -1,3 +1,4 @@
+using Kit.Common;
 using Kit.Diagnostics;
 
 namespace Kit.Tests.Diagnostics;
@@ -22,7 +23,7 @@ public class NeighbourPreservationTests
     public void A_random_layout_scores_near_one_half()
     {
         var (x, _) = TsneTests.Clusters(4, 50, 10, seed: 3);
-        var rng = new SeededRandom(2);
+        var rng = new SplitMix64(2);
         var layout = x.Select(_ => new[] { rng.NextGaussian(), rng.NextGaussian() }).ToArray();
         Assert.InRange(NeighbourPreservation.Trustworthiness(x, layout, 10), 0.4, 0.6);
         Assert.Throws<ArgumentOutOfRangeException>(() => NeighbourPreservation.Trustworthiness(x, layout, 150));   // 2n − 3k − 1 < 0

@@ -1,3 +1,4 @@
+using Kit.Common;
 using Kit.Diagnostics;
 
 namespace Kit.Tests.Diagnostics;
@@ -10,7 +11,7 @@ internal static class Samples
     /// <summary>Random softmax rows over k classes; the true class gets a boost so accuracy is well above chance.</summary>
     public static (int[] Labels, double[][] Probabilities) Random(int n, int k, ulong seed, double signal = 1.5)
     {
-        var rng = new SeededRandom(seed);
+        var rng = new SplitMix64(seed);
         var labels = new int[n];
         var probabilities = new double[n][];
         for (int i = 0; i < n; i++)

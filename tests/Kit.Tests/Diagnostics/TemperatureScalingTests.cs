@@ -1,3 +1,4 @@
+using Kit.Common;
 using Kit.Diagnostics;
 
 namespace Kit.Tests.Diagnostics;
@@ -7,7 +8,7 @@ public class TemperatureScalingTests
     /// <summary>Labels drawn from softmax(z); the model reports z·T, i.e. it is miscalibrated by temperature T exactly.</summary>
     static (double[][] Logits, int[] Labels) AtTemperature(int n, int k, double t, ulong seed)
     {
-        var rng = new SeededRandom(seed);
+        var rng = new SplitMix64(seed);
         var logits = new double[n][];
         var labels = new int[n];
         for (int i = 0; i < n; i++)

@@ -1,3 +1,4 @@
+using Kit.Common;
 using Kit.Diagnostics;
 
 namespace Kit.Tests.Diagnostics;
@@ -7,7 +8,7 @@ public class TsneTests
     /// <summary>Isotropic Gaussian clusters (sd 1) around centres 12 apart on distinct axes: invented, well separated.</summary>
     internal static (double[][] X, int[] Cluster) Clusters(int clusters, int perCluster, int dims, ulong seed)
     {
-        var rng = new SeededRandom(seed);
+        var rng = new SplitMix64(seed);
         var x = new double[clusters * perCluster][];
         var label = new int[x.Length];
         for (int i = 0; i < x.Length; i++)
@@ -27,7 +28,7 @@ public class TsneTests
     {
         var (x, _) = Clusters(3, 40, 5, seed: 2);
         var p = SparseAffinities.Compute(x, 10, new ParallelOptions());
-        var rng = new SeededRandom(4);
+        var rng = new SplitMix64(4);
         int n = x.Length;
         var y = Enumerable.Range(0, 2 * n).Select(_ => 3 * rng.NextGaussian()).ToArray();
         var dense = new double[n, n];
@@ -70,7 +71,7 @@ public class TsneTests
     public void Conditional_distributions_have_the_requested_perplexity_and_P_is_symmetric()
     {
         var (x, _) = Clusters(4, 50, 8, seed: 3);
-        var rng = new SeededRandom(1);
+        var rng = new SplitMix64(1);
         var distances = Enumerable.Range(0, 90).Select(_ => 50 * rng.NextDouble()).Order().ToArray();
         var cond = SparseAffinities.Conditional(distances, 30);
         Assert.Equal(1, cond.Sum(), 12);

@@ -1,3 +1,4 @@
+using Kit.Common;
 using Kit.Data;
 using Kit.Models;
 
@@ -13,17 +14,17 @@ internal static class TinySets
 
     public static EncodedSet Make(int rows, ulong seed)
     {
-        var rng = new Kit.Batching.SplitMix64(seed);
+        var rng = new SplitMix64(seed);
         var sequences = new List<int[]>();
         var labels = new List<int>();
         for (int r = 0; r < rows; r++)
         {
-            int label = rng.Below(Classes);
-            int length = 3 + rng.Below(6);
+            int label = rng.NextInt(Classes);
+            int length = 3 + rng.NextInt(6);
             var seq = new int[length];
             for (int t = 0; t < length; t++)
-                seq[t] = rng.Below(3) == 0 ? 2 + label : 5 + rng.Below(Vocabulary - 5);
-            seq[rng.Below(length)] = 2 + label;
+                seq[t] = rng.NextInt(3) == 0 ? 2 + label : 5 + rng.NextInt(Vocabulary - 5);
+            seq[rng.NextInt(length)] = 2 + label;
             sequences.Add(seq);
             labels.Add(label);
         }

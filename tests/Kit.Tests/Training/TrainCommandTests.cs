@@ -42,6 +42,13 @@ public sealed class TrainCommandTests : IDisposable
         Assert.Equal(2, metrics["history"]!.AsArray().Count);
         Assert.DoesNotContain("seconds", File.ReadAllText(Path.Combine(a, "metrics.json")), StringComparison.OrdinalIgnoreCase);
         Assert.True((double)metrics["calibration"]!["temperature"]! > 0);
+        // The flat test-split summary carries the names scripts rely on, equal to the detailed fields.
+        foreach (var key in new[] { "macro_f1", "log_loss", "brier", "ece", "temperature", "ece_after_temperature" })
+            Assert.True(metrics[key] is not null, $"metrics.json lacks {key}");
+        Assert.Equal((double)metrics["test"]!["macroF1"]!, (double)metrics["macro_f1"]!);
+        Assert.Equal((double)metrics["calibration"]!["temperature"]!, (double)metrics["temperature"]!);
+        Assert.InRange((double)metrics["ece"]!, 0.0, 1.0);
+        Assert.InRange((double)metrics["ece_after_temperature"]!, 0.0, 1.0);
 
         string toScore = Path.Combine(_dir, "score.csv");
         File.WriteAllText(toScore, "text,label\nabc-7f3e.example,x\n\u00c6\u00d8\u00c5\u00c6,y\nzeta01.example,z\n");
