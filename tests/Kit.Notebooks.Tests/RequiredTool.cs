@@ -13,7 +13,7 @@ public sealed class RequiredTool
     public string Install { get; }
     readonly Lazy<string?> _problem;
 
-    RequiredTool(string variable, string install, Func<string?> problem)
+    internal RequiredTool(string variable, string install, Func<string?> problem)
     {
         Variable = variable;
         Install = install;
