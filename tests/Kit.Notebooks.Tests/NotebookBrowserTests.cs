@@ -89,6 +89,5 @@ public class NotebookBrowserTests(FeedFixture feed, ITestOutputHelper output)
         await open.ScreenshotAsync(shot);
         Assert.Equal(PngSignature, File.ReadAllBytes(shot)[..8]);
         output.WriteLine($"page: {page}\nscreenshot: {shot}");
-        Console.WriteLine($"screenshot: {shot}");
     }
 }
