@@ -17,8 +17,16 @@ public static class PlotlyAsset
     /// <summary>A marker placed in every page that embeds the bundle; tests and the CI check look for it.</summary>
     public const string Marker = "kit-plotly-bundle";
 
+    /// <remarks>
+    /// The bundle is a UMD module: on a page that has an AMD loader (require.js, as in the classic notebook and
+    /// some nbconvert templates) it would register itself with the loader and never set window.Plotly, and the
+    /// kit's charts wait for window.Plotly. Running it inside a function whose define, module and exports are
+    /// undefined makes it take the global branch on every page.
+    /// </remarks>
     public static string ScriptTag() =>
-        $"<script data-role=\"{Marker}\" data-version=\"{Version}\">{Script.Replace("</script", "<\\/script", StringComparison.OrdinalIgnoreCase)}</script>";
+        $"<script data-role=\"{Marker}\" data-version=\"{Version}\">(function(define, module, exports){{\n" +
+        Script.Replace("</script", "<\\/script", StringComparison.OrdinalIgnoreCase) +
+        "\n}).call(window, undefined, undefined, undefined);</script>";
 
     static (string, string) Load()
     {

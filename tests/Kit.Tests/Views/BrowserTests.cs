@@ -59,6 +59,27 @@ public class BrowserTests(ITestOutputHelper output)
     }
 
     [BrowserFact]
+    public async Task Charts_draw_on_a_page_that_already_has_an_AMD_loader()
+    {
+        // The classic notebook and some nbconvert templates load require.js; plotly.js's UMD wrapper would then
+        // register with it instead of setting window.Plotly. A stand-in loader is enough to trigger that branch.
+        string browser = BrowserFactAttribute.Browser();
+        var views = ReportSamples.AllViews().OfType<IChartView>().Take(2).Cast<IView>().ToList();
+        int expected = ReportSamples.ChartCount(views);
+        string html = Path.Combine(ArtifactFolder(), "amd-loader-page.html");
+        string page = ReportWriter.Render("AMD loader present", "require.js stand-in before the bundle", views)
+            .Replace("<head>", "<head><script>window.define = function () { window.kitAmdCalls = (window.kitAmdCalls || 0) + 1; }; window.define.amd = {};</script>", StringComparison.Ordinal);
+        File.WriteAllText(html, page);
+
+        await using var session = await HeadlessBrowser.LaunchAsync(browser);
+        await using var tab = await session.OpenAsync(html);
+        var census = await tab.CensusAsync();
+        output.WriteLine($"{browser}: {census}");
+        Assert.Equal(expected, census.Drawn);
+        Assert.Empty(census.Errors);
+    }
+
+    [BrowserFact]
     public async Task Export_writes_html_svg_png_and_pdf_when_a_browser_exists()
     {
         string browser = BrowserFactAttribute.Browser();
