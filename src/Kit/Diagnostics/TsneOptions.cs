@@ -4,8 +4,7 @@ namespace Kit.Diagnostics;
 public enum TsneInitialisation
 {
     /// <summary>First two principal components, rescaled to standard deviation 1e-4: repeatable and keeps
-    /// global structure better than noise (Kobak and Berens 2019, "The art of using t-SNE for single-cell
-    /// transcriptomics").</summary>
+    /// global structure better than noise (Kobak and Berens 2019, Nature Communications 10:5416).</summary>
     Pca,
     /// <summary>Gaussian noise with standard deviation 1e-4 from the seed (van der Maaten 2014).</summary>
     Random,
