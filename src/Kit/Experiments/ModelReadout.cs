@@ -1,4 +1,3 @@
-using Kit.Batching;
 using Kit.Data;
 using Kit.Models;
 using Kit.Training;
@@ -14,24 +13,8 @@ namespace Kit.Experiments;
 public static class ModelReadout
 {
     /// <summary>The pooled representation the head reads, one row per sequence, in the set's order.</summary>
-    public static double[][] Pooled(SequenceClassifier model, EncodedSet set, int batchSize = 512)
-    {
-        Kit.Native.Engine.EnsureLoaded();
-        model.eval();
-        using var noGrad = torch.no_grad();
-        var result = new double[set.Count][];
-        foreach (var rows in new SequentialBatchSampler(batchSize).Batches(set, 0))
-        {
-            using var scope = torch.NewDisposeScope();
-            using var batch = BatchBuilder.Build(set, rows);
-            var pooled = model.Pooled(batch.Tokens, batch.Lengths).to(ScalarType.Float64).contiguous();
-            var flat = pooled.data<double>().ToArray();
-            int width = (int)pooled.shape[1];
-            for (int i = 0; i < rows.Length; i++)
-                result[rows[i]] = flat.AsSpan(i * width, width).ToArray();
-        }
-        return result;
-    }
+    public static double[][] Pooled(SequenceClassifier model, EncodedSet set, int batchSize = 512) =>
+        Scoring.Rows(model, set, (m, b) => m.Pooled(b.Tokens, b.Lengths), batchSize);
 
     /// <summary>Row t is the embedding of token id t.</summary>
     public static double[][] Embedding(SequenceClassifier model)

@@ -9,11 +9,16 @@ namespace Kit.Training;
 /// <summary>Runs a trained model over a set and hands back plain arrays for the diagnostics layer.</summary>
 public static class Scoring
 {
+    /// <summary>Raw logits, one row per sequence, in the set's order.</summary>
+    public static double[][] Logits(SequenceClassifier model, EncodedSet set, int batchSize = 512) =>
+        Rows(model, set, (m, b) => m.forward(b.Tokens, b.Lengths), batchSize);
+
     /// <summary>
-    /// Raw logits, one row per sequence, in the set's order. Rows are batched in length order (and put back), so a
-    /// batch holds little padding. Rows do not interact; the grouping can move only the last float bits.
+    /// Any per-row output of the model ([B, D] per batch), one row per sequence in the set's order, as doubles.
+    /// Rows are batched in length order (and put back), so a batch holds little padding. Rows do not interact;
+    /// the grouping can move only the last float bits.
     /// </summary>
-    public static double[][] Logits(SequenceClassifier model, EncodedSet set, int batchSize = 512)
+    public static double[][] Rows(SequenceClassifier model, EncodedSet set, Func<SequenceClassifier, Batch, Tensor> read, int batchSize = 512)
     {
         Kit.Native.Engine.EnsureLoaded();
         model.eval();
@@ -26,11 +31,11 @@ public static class Scoring
             var rows = order[start..Math.Min(order.Length, start + batchSize)];
             using var scope = torch.NewDisposeScope();
             using var batch = BatchBuilder.Build(set, rows);
-            var logits = model.forward(batch.Tokens, batch.Lengths).to(ScalarType.Float64).contiguous();
-            var flat = logits.data<double>().ToArray();
-            int classes = (int)logits.shape[1];
+            var output = read(model, batch).to(ScalarType.Float64).contiguous();
+            var flat = output.data<double>().ToArray();
+            int width = (int)output.shape[1];
             for (int i = 0; i < rows.Length; i++)
-                result[rows[i]] = flat.AsSpan(i * classes, classes).ToArray();
+                result[rows[i]] = flat.AsSpan(i * width, width).ToArray();
         }
         return result;
     }
