@@ -148,7 +148,9 @@ internal static class TrainCommand
             Console.CancelKeyPress -= onCancel;
         }
         Directory.CreateDirectory(dir);
-        double? temperature = run.Validation.Count > 0 ? TemperatureScaling.Fit(run.ValidationLogits, run.Validation.Labels) : null;
+        // Computed once: the report draws these records and metrics.json takes its calibration figures from them.
+        var diagnostics = RunDiagnostics.Compute(run, spec.Diagnostics);
+        double? temperature = diagnostics.Temperature.Temperature;
         var bundle = new ModelBundle
         {
             Model = run.Model,
@@ -162,12 +164,12 @@ internal static class TrainCommand
         };
         string bundlePath = Path.Combine(dir, ModelBundle.DefaultFileName);
         bundle.Save(bundlePath);
-        AtomicFile.WriteAllText(Path.Combine(dir, "metrics.json"), RunMetricsJson.Metrics(run, temperature));
+        AtomicFile.WriteAllText(Path.Combine(dir, "metrics.json"), RunMetricsJson.Metrics(run, diagnostics));
         AtomicFile.WriteAllText(Path.Combine(dir, "timings.json"), RunMetricsJson.Timings(run));
         string report = Path.Combine(dir, "report.html");
         ReportWriter.Write(report, $"{spec.Cell} classifier — {Path.GetFileName(spec.DataPath)}",
             $"Test split: accuracy {run.TestMetrics.Accuracy.ToString("P1", CultureInfo.InvariantCulture)}, macro F1 {run.TestMetrics.MacroF1.ToString("F3", CultureInfo.InvariantCulture)}.",
-            RunReport.Views(run));
+            RunReport.Views(run, diagnostics));
         if (run.History.StopReason is string why) Console.Error.WriteLine(why);
         Console.WriteLine(string.Create(CultureInfo.InvariantCulture,
             $"best epoch {run.History.BestEpoch}; test accuracy {run.TestMetrics.Accuracy:P2}, macro F1 {run.TestMetrics.MacroF1:F3}"));
@@ -186,8 +188,9 @@ internal static class RunMetricsJson
 
     static JsonNode? Num(double x) => double.IsFinite(x) ? JsonValue.Create(x) : null;
 
-    public static string Metrics(RunOutcome run, double? temperature)
+    public static string Metrics(RunOutcome run, RunDiagnostics diagnostics)
     {
+        double? temperature = diagnostics.Temperature.Temperature;
         var s = run.Spec;
         var m = run.TestMetrics;
         var names = m.ClassNames;
@@ -199,13 +202,7 @@ internal static class RunMetricsJson
             confusion.Add(row);
         }
         // The headline numbers of the test split under stable snake_case names, for scripts that diff runs.
-        double ece = double.NaN, eceAfter = double.NaN;
-        if (run.Test.Count > 0)
-        {
-            ece = CalibrationReport.Compute(run.Test.Labels, run.TestProbabilities, names, bootstrap: 0).Ece;
-            if (temperature is double tt)
-                eceAfter = CalibrationReport.Compute(run.Test.Labels, Scoring.Softmax(run.TestLogits, tt), names, bootstrap: 0).Ece;
-        }
+        double ece = diagnostics.Calibration.Ece, eceAfter = diagnostics.CalibrationAfterScaling.Ece;
         var root = new JsonObject
         {
             ["format"] = "kit-metrics",
