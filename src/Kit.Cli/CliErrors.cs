@@ -3,7 +3,7 @@ using Kit.Native;
 
 namespace Kit.Cli;
 
-/// <summary>Turns the kit's own errors into a one-line message on stderr and an exit code (2 = bad input).</summary>
+/// <summary>Turns the kit's own errors (data, model bundle, engine) into a one-line message on stderr and an exit code (2 = bad input).</summary>
 internal static class CliErrors
 {
     public static int Guard(Func<int> action)
@@ -13,6 +13,11 @@ internal static class CliErrors
             return action();
         }
         catch (DataError e)
+        {
+            Console.Error.WriteLine(e.Message);
+            return 2;
+        }
+        catch (Kit.Training.BundleError e)
         {
             Console.Error.WriteLine(e.Message);
             return 2;

@@ -109,14 +109,14 @@ internal static class TrainCommand
         return option;
     }
 
-    /// <summary>Bundle and option problems are bad input too: one line, exit code 2.</summary>
+    /// <summary>Option values the parser cannot check (checked by TrainingOptions.Validate) are bad input too: one line, exit code 2.</summary>
     internal static int Guarded(Func<int> action)
     {
         try
         {
             return action();
         }
-        catch (Exception e) when (e is BundleError or ArgumentException)
+        catch (ArgumentException e)
         {
             Console.Error.WriteLine(e.Message);
             return 2;
