@@ -29,15 +29,20 @@ public sealed record DatasetProfile(string Source, string Tokenizer, int Rows, I
     /// <summary>Largest class over smallest class (1 = balanced).</summary>
     public double ImbalanceRatio => Classes.Count == 0 ? double.NaN : (double)Classes.Max(c => c.Rows) / Classes.Min(c => c.Rows);
 
-    public static DatasetProfile Compute(LabelledTable table, ITokenizer tokenizer)
+    public static DatasetProfile Compute(LabelledTable table, ITokenizer tokenizer) =>
+        Compute(table, tokenizer.Name, table.Texts.Select(tokenizer.Split).ToArray());
+
+    /// <summary>The profile of rows already split into tokens (one entry per table row).</summary>
+    public static DatasetProfile Compute(LabelledTable table, string tokenizerName, IReadOnlyList<IReadOnlyList<string>> rows)
     {
+        if (rows.Count != table.Count) throw new ArgumentException($"{rows.Count} token rows for a table of {table.Count}");
         var map = table.LabelMap();
         var labels = table.LabelIds(map);
         var lengths = new int[table.Count];
         var counts = new Dictionary<string, long>(StringComparer.Ordinal);
         for (int i = 0; i < table.Count; i++)
         {
-            var pieces = tokenizer.Split(table.Texts[i]);
+            var pieces = rows[i];
             lengths[i] = pieces.Count;
             foreach (var p in pieces) counts[p] = counts.GetValueOrDefault(p) + 1;
         }
@@ -46,7 +51,7 @@ public sealed record DatasetProfile(string Source, string Tokenizer, int Rows, I
             var rows = Enumerable.Range(0, labels.Length).Where(i => labels[i] == c).ToArray();
             return new ClassProfile(map.Names[c], rows.Length, (double)rows.Length / table.Count, LengthStats.Of(rows.Select(i => lengths[i])));
         }).ToArray();
-        return new DatasetProfile(table.SourcePath, tokenizer.Name, table.Count, classes, LengthStats.Of(lengths),
+        return new DatasetProfile(table.SourcePath, tokenizerName, table.Count, classes, LengthStats.Of(lengths),
             BuildHistogram(lengths, labels, map.Count), CountCoverage(counts), lengths);
     }
 

@@ -9,17 +9,22 @@ public static class Encoder
         Encode(table.Texts, table.LabelIds(labels), tokenizer, vocab, maxLength, policy);
 
     public static (EncodedSet Set, TruncationReport Report) Encode(IReadOnlyList<string> texts, int[] labels, ITokenizer tokenizer,
+        Vocabulary vocab, int maxLength, TruncationPolicy policy, int[]? sourceRows = null) =>
+        EncodePieces(texts.Select(tokenizer.Split).ToArray(), labels, vocab, maxLength, policy, sourceRows);
+
+    /// <summary>Rows already split into tokens (so a caller that needs the tokens anyway splits once).</summary>
+    public static (EncodedSet Set, TruncationReport Report) EncodePieces(IReadOnlyList<IReadOnlyList<string>> rows, int[] labels,
         Vocabulary vocab, int maxLength, TruncationPolicy policy, int[]? sourceRows = null)
     {
-        if (labels.Length != texts.Count) throw new ArgumentException($"{labels.Length} labels for {texts.Count} texts");
+        if (labels.Length != rows.Count) throw new ArgumentException($"{labels.Length} labels for {rows.Count} rows");
         if (maxLength < 1) throw new ArgumentOutOfRangeException(nameof(maxLength), "maxLength must be at least 1");
-        var offsets = new int[texts.Count + 1];
-        var tokens = new List<int>(texts.Count * 8);
+        var offsets = new int[rows.Count + 1];
+        var tokens = new List<int>(rows.Count * 8);
         int truncated = 0, longest = 0, empty = 0;
         long dropped = 0;
-        for (int i = 0; i < texts.Count; i++)
+        for (int i = 0; i < rows.Count; i++)
         {
-            var pieces = tokenizer.Split(texts[i]);
+            var pieces = rows[i];
             int n = pieces.Count;
             longest = Math.Max(longest, n);
             if (n == 0) empty++;
@@ -40,6 +45,6 @@ public static class Encoder
             offsets[i + 1] = tokens.Count;
         }
         var set = new EncodedSet(tokens.ToArray(), offsets, labels.ToArray(), sourceRows);
-        return (set, new TruncationReport(texts.Count, maxLength, policy, truncated, dropped, tokens.Count, longest, empty));
+        return (set, new TruncationReport(rows.Count, maxLength, policy, truncated, dropped, tokens.Count, longest, empty));
     }
 }

@@ -8,6 +8,9 @@ public sealed record PartSummary(string Part, int Rows, int[] ClassCounts, doubl
 /// <summary>How a split came out: one <see cref="PartSummary"/> per part, plus how it was made.</summary>
 public sealed record SplitSummary(string Method, ulong Seed, int Rows, IReadOnlyList<PartSummary> Parts)
 {
+    /// <summary>Names of the class ids, when known (prepared data sets them), so the summary can be shown on its own.</summary>
+    public IReadOnlyList<string>? ClassNames { get; init; }
+
     public static SplitSummary Of(string method, ulong seed, int[] labels, int[]? lengths, params (string Name, int[] Rows)[] parts)
     {
         int classes = labels.Length == 0 ? 0 : labels.Max() + 1;
@@ -25,6 +28,7 @@ public sealed record SplitSummary(string Method, ulong Seed, int Rows, IReadOnly
     /// <summary>Long format: one row per part and class.</summary>
     public DataFrame ToDataFrame(IReadOnlyList<string>? classNames = null)
     {
+        classNames ??= ClassNames;
         var part = new List<string>();
         var cls = new List<string>();
         var count = new List<int>();
