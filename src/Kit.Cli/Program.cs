@@ -14,5 +14,5 @@ public static class Program
         return root;
     }
 
-    public static int Main(string[] args) => BuildRoot().Parse(args).Invoke();
+    public static int Main(string[] args) => CliErrors.Invoke(BuildRoot(), args);
 }

@@ -1,7 +1,6 @@
 using System.CommandLine;
 using System.Diagnostics;
 using System.Globalization;
-using Kit.Data;
 using Kit.Experiments;
 using Kit.Training;
 using Kit.Views;
@@ -15,45 +14,28 @@ namespace Kit.Cli.Commands;
 /// </summary>
 internal static class CompareCommand
 {
-    internal sealed record Settings(string Data, ColumnSpec Columns, string Tokenizer, int MaxLength, int? Sample, string? Grid,
-        int Seeds, int? Folds, string Out, int Workers, int Threads, string? Shard, int Epochs, int Batch, double LearningRate,
-        int Embed, int Hidden, ulong SplitSeed, ulong Seed, bool Serve);
+    internal sealed record Settings(RunSpec Base, string? Grid, int Seeds, int? Folds, string Out, int Workers, string? Shard, bool Serve);
 
     public static Command Build()
     {
         var data = new Argument<string>("DATA") { Description = "Labelled data file (.csv, .tsv, .jsonl)" };
-        var text = new Option<string>("--text") { Description = "Column holding the text", DefaultValueFactory = _ => "text" };
-        var label = new Option<string>("--label") { Description = "Column holding the class label", DefaultValueFactory = _ => "label" };
-        var group = new Option<string?>("--group") { Description = "Column of group keys kept within one part of every split" };
-        var tokenizer = new Option<string>("--tokenizer") { Description = "character, character-folded, byte or word", DefaultValueFactory = _ => "character" };
-        var maxLength = new Option<int>("--max-length") { Description = "Longest sequence in tokens (longer ones are cut)", DefaultValueFactory = _ => 64 };
-        var sample = new Option<int?>("--sample") { Description = "Use a stratified sample of this many rows" };
-        var grid = new Option<string?>("--grid") { Description = "Configs: \"key=v1,v2; key=v1\" over cell, embed, hidden, layers, bidirectional, pooling, epochs, batch, lr" };
+        var grid = new Option<string?>("--grid")
+        {
+            Description = "Configs: \"key=v1,v2; key=v1\" over " + string.Join(", ", RunSettings.GridKeys.Select(k => k.Key)) + " (a grid value overrides the flag)",
+        };
         var seeds = new Option<int>("--seeds") { Description = "Training seeds per config", DefaultValueFactory = _ => 1 };
         var folds = new Option<int?>("--folds") { Description = "k-fold runs (default: one fixed holdout split)" };
         var output = new Option<string>("--out") { Description = "Results folder (store, sweep description, report)", Required = true };
         var workers = new Option<int>("--workers") { Description = "Worker processes sharing the cores", DefaultValueFactory = _ => 1 };
-        var threads = new Option<int>("--threads") { Description = "Engine threads per worker (default: cores / workers)" };
         var shard = new Option<string?>("--shard") { Description = "Run only share i of N (i/N), or take it from a job array (auto, auto/N)" };
-        var epochs = new Option<int>("--epochs") { Description = "Epochs (a grid value overrides)", DefaultValueFactory = _ => 4 };
-        var batch = new Option<int>("--batch") { Description = "Batch size (a grid value overrides)", DefaultValueFactory = _ => 64 };
-        var lr = new Option<double>("--lr") { Description = "Learning rate (a grid value overrides)", DefaultValueFactory = _ => 3e-3 };
-        var embed = new Option<int>("--embed") { Description = "Embedding size (a grid value overrides)", DefaultValueFactory = _ => 32 };
-        var hidden = new Option<int>("--hidden") { Description = "Hidden size (a grid value overrides)", DefaultValueFactory = _ => 64 };
-        var splitSeed = new Option<ulong>("--split-seed") { Description = "Seed of the split (fixed across configs and training seeds)", DefaultValueFactory = _ => 17UL };
-        var seed = new Option<ulong>("--seed") { Description = "First training seed", DefaultValueFactory = _ => 1UL };
         var serve = new Option<bool>("--serve") { Description = "Internal: act as a worker process reading run ids on standard input", Hidden = true };
-        var command = new Command("compare", "Sweep configs × seeds × folds against an n-gram naive Bayes baseline, crash-safe and resumable.")
-        {
-            data, text, label, group, tokenizer, maxLength, sample, grid, seeds, folds, output, workers, threads, shard,
-            epochs, batch, lr, embed, hidden, splitSeed, seed, serve,
-        };
-        command.SetAction(parse => CliErrors.Guard(() => Run(new Settings(parse.GetValue(data)!,
-            new ColumnSpec(parse.GetValue(text)!, parse.GetValue(label)!, parse.GetValue(group)), parse.GetValue(tokenizer)!,
-            parse.GetValue(maxLength), parse.GetValue(sample), parse.GetValue(grid), parse.GetValue(seeds), parse.GetValue(folds),
-            parse.GetValue(output)!, parse.GetValue(workers), parse.GetValue(threads), parse.GetValue(shard), parse.GetValue(epochs),
-            parse.GetValue(batch), parse.GetValue(lr), parse.GetValue(embed), parse.GetValue(hidden), parse.GetValue(splitSeed),
-            parse.GetValue(seed), parse.GetValue(serve)), Environment.GetCommandLineArgs()[1..])));
+        var command = new Command("compare", "Sweep configs × seeds × folds against an n-gram naive Bayes baseline, crash-safe and resumable.") { data };
+        var shared = RunOptions.AddTo(command);
+        foreach (var option in new Option[] { grid, seeds, folds, output, workers, shard, serve }) command.Options.Add(option);
+        command.SetAction(parse => CliErrors.Guard(() => Run(new Settings(
+            shared.Read(parse, RunSettings.Defaults with { DataPath = parse.GetValue(data)! }), parse.GetValue(grid), parse.GetValue(seeds),
+            parse.GetValue(folds), parse.GetValue(output)!, parse.GetValue(workers), parse.GetValue(shard), parse.GetValue(serve)),
+            Environment.GetCommandLineArgs()[1..])));
         return command;
     }
 
@@ -64,14 +46,14 @@ internal static class CompareCommand
         try
         {
             if (s.Workers < 1) throw new ArgumentException($"--workers {s.Workers}: at least one worker");
-            int threads = s.Threads > 0 ? s.Threads : Math.Max(1, Environment.ProcessorCount / s.Workers);
+            int threads = s.Base.Training.Threads > 0 ? s.Base.Training.Threads : Math.Max(1, Environment.ProcessorCount / s.Workers);
             plan = Plan(s, threads);
             shard = s.Shard is null ? Shard.Whole : Shard.Parse(s.Shard);
         }
         catch (ArgumentException e)
         {
             Console.Error.WriteLine($"compare: {e.Message}");
-            return 1;
+            return CliErrors.BadInput;
         }
         var sweep = Sweep.Prepare(plan);
         if (s.Serve) return SweepWorker.Serve(sweep, Console.In, Console.Out, Console.Error);
@@ -97,7 +79,7 @@ internal static class CompareCommand
             catch (ArgumentException e)
             {
                 Console.Error.WriteLine($"compare: {e.Message}");
-                return 1;
+                return CliErrors.BadInput;
             }
             foreach (var note in outcome.Notes) Console.Error.WriteLine($"note: {note}");
             Console.WriteLine($"shard {shard}: {outcome.Ran} run(s) finished now, {outcome.AlreadyDone} already in the store, {outcome.Owned} owned; store {outcome.StoreFile}");
@@ -116,21 +98,8 @@ internal static class CompareCommand
 
     internal static SweepPlan Plan(Settings s, int threads)
     {
-        (TokenizerKind Kind, bool Fold) tokenizer = s.Tokenizer switch
-        {
-            "character" => (TokenizerKind.Character, false),
-            "character-folded" => (TokenizerKind.Character, true),
-            "byte" => (TokenizerKind.Byte, false),
-            "word" => (TokenizerKind.Word, false),
-            _ => throw new ArgumentException($"unknown tokenizer '{s.Tokenizer}' (character, character-folded, byte, word)"),
-        };
-        var spec = new RunSpec
-        {
-            DataPath = s.Data, Columns = s.Columns, Tokenizer = tokenizer.Kind, FoldCase = tokenizer.Fold, MaxLength = s.MaxLength,
-            SampleRows = s.Sample, SplitSeed = s.SplitSeed, EmbeddingSize = s.Embed, HiddenSize = s.Hidden,
-            GroupAware = s.Columns.Group is not null,
-            Training = new TrainingOptions { Epochs = s.Epochs, BatchSize = s.Batch, LearningRate = s.LearningRate, Seed = s.Seed, Threads = threads },
-        };
+        var spec = s.Base with { Training = s.Base.Training with { Threads = threads } };
+        spec.Training.Validate();
         return new SweepPlan { Base = spec, Configs = SweepGrid.Parse(s.Grid), Seeds = s.Seeds, Folds = s.Folds }.Validate();
     }
 

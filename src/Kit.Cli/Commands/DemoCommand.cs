@@ -27,13 +27,16 @@ internal static class DemoCommand
         Console.Error.WriteLine($"{Kit.Native.Engine.EnsureLoaded()}");
         Console.Error.WriteLine($"demo: {(quick ? "quick" : "full")} run on {spec.DataPath}");
         var run = SingleRun.Execute(spec, new ConsoleProgress());
-        Directory.CreateDirectory(outDir);
-        var export = ReportExport.WriteReport(outDir, "Hostname triage — character GRU",
-            $"Invented demo data ({run.Labels.Count} generator families). Test split: accuracy {run.TestMetrics.Accuracy:P1}, macro F1 {run.TestMetrics.MacroF1:F3}.",
-            RunReport.Views(run), images);
+        var report = RunReport.Of(run, title: "Hostname triage — character GRU",
+            subtitle: $"Invented demo data ({run.Labels.Count} generator families). Test part: accuracy {run.TestMetrics.Accuracy:P1}, macro F1 {run.TestMetrics.MacroF1:F3}.");
+        var files = RunWriter.Write(outDir, report);
         Console.WriteLine($"test accuracy {run.TestMetrics.Accuracy:P2}, macro F1 {run.TestMetrics.MacroF1:F3}");
-        Console.WriteLine($"wrote {export.Files[0]}");
-        if (images) Console.WriteLine(export.Message);
+        Console.WriteLine($"wrote {files}");
+        if (images)
+        {
+            var export = ReportExport.WriteReport(outDir, report.Title, report.Subtitle, report.Views, images);
+            Console.WriteLine(export.Message);
+        }
         return 0;
     }
 

@@ -1,75 +1,58 @@
 using System.CommandLine;
 using System.Globalization;
 using Kit.Data;
+using Kit.Experiments;
 
 namespace Kit.Cli.Commands;
 
 /// <summary>
-/// `kit inspect DATA`: the data profile, a default split's summary and the leakage audit, as plain text.
+/// `kit inspect DATA`: the data profile, the split's summary and the leakage audit, as plain text. The data is
+/// prepared exactly as `kit train` and `kit compare` prepare it with the same flags (same defaults, same seed, the
+/// split column when one is named), so the split audited here is the split trained on.
 /// Bad input prints the located `FILE:LINE: problem` message and exits with 2.
 /// </summary>
 internal static class InspectCommand
 {
-    public const int BadInput = 2;
+    public const int BadInput = CliErrors.BadInput;
 
-    internal sealed record Settings(string Path, ColumnSpec Columns, string Tokenizer, RowPolicy Policy, ulong Seed);
+    internal sealed record Settings(RunSpec Spec, RowPolicy Policy, int? Folds = null);
 
     public static Command Build()
     {
         var data = new Argument<string>("DATA") { Description = "A .csv, .tsv/.tab or .jsonl/.ndjson file with a header (or keys) naming its columns" };
-        var text = new Option<string>("--text") { Description = "Column holding the text", DefaultValueFactory = _ => "text" };
-        var label = new Option<string>("--label") { Description = "Column holding the class label", DefaultValueFactory = _ => "label" };
-        var group = new Option<string?>("--group") { Description = "Column of group keys that must not be split across parts" };
-        var split = new Option<string?>("--split") { Description = "Column that already assigns rows to train / validation / test" };
-        var tokenizer = new Option<string>("--tokenizer") { Description = "character, character-folded, byte, word or word-lower", DefaultValueFactory = _ => "character" };
         var skip = new Option<bool>("--skip-bad-rows") { Description = "Drop unusable rows and report them, instead of stopping at the first" };
-        var seed = new Option<ulong>("--seed") { Description = "Seed of the default split", DefaultValueFactory = _ => 1UL };
-        var command = new Command("inspect", "Profile a labelled data file, summarise a default split and audit it for leakage.")
+        var folds = new Option<int?>("--folds") { Description = "Audit a k-fold split (as kit compare --folds cuts it) instead of the holdout" };
+        var command = new Command("inspect", "Profile a labelled data file, summarise its split and audit it for leakage.") { data };
+        // The data settings only: the same flags, defaults and help text as train and compare.
+        var shared = RunOptions.AddTo(command, s => s.Scope == SettingScope.Data);
+        command.Options.Add(folds);
+        command.Options.Add(skip);
+        command.SetAction(parse =>
         {
-            data, text, label, group, split, tokenizer, skip, seed,
-        };
-        command.SetAction(parse => Run(new Settings(parse.GetValue(data)!,
-            new ColumnSpec(parse.GetValue(text)!, parse.GetValue(label)!, parse.GetValue(group), parse.GetValue(split)),
-            parse.GetValue(tokenizer)!, parse.GetValue(skip) ? RowPolicy.Skip : RowPolicy.Refuse, parse.GetValue(seed)),
-            parse.InvocationConfiguration.Output, parse.InvocationConfiguration.Error));
+            var errors = parse.InvocationConfiguration.Error;
+            return CliErrors.Guard(() => Run(new Settings(shared.Read(parse, RunSettings.Defaults with { DataPath = parse.GetValue(data)! }),
+                parse.GetValue(skip) ? RowPolicy.Skip : RowPolicy.Refuse, parse.GetValue(folds)), parse.InvocationConfiguration.Output, errors), errors);
+        });
         return command;
     }
 
-    internal static int Run(Settings settings, TextWriter output, TextWriter errors)
+    internal static int Run(Settings settings, TextWriter output, TextWriter errors) => CliErrors.Guard(() =>
     {
-        ITokenizer tokenizer;
-        switch (settings.Tokenizer)
-        {
-            case "character": tokenizer = new CharacterTokenizer(); break;
-            case "character-folded": tokenizer = new CharacterTokenizer(foldCase: true); break;
-            case "byte": tokenizer = new ByteTokenizer(); break;
-            case "word": tokenizer = new WordTokenizer(lowerCase: false); break;
-            case "word-lower": tokenizer = new WordTokenizer(); break;
-            default:
-                errors.WriteLine($"unknown tokenizer '{settings.Tokenizer}' (character, character-folded, byte, word, word-lower)");
-                return 1;
-        }
-        try
-        {
-            var table = TableReader.Read(settings.Path, settings.Columns, settings.Policy);
-            Write(output, table, tokenizer, settings.Seed);
-            return 0;
-        }
-        catch (DataError e)
-        {
-            errors.WriteLine(e.Message);
-            return BadInput;
-        }
-    }
+        var table = TableReader.Read(settings.Spec.DataPath, settings.Spec.Columns, settings.Policy);
+        var data = PreparedData.Prepare(table, settings.Spec.Preparation with { Folds = settings.Folds });
+        Write(output, data);
+        return 0;
+    }, errors);
 
-    static void Write(TextWriter o, LabelledTable table, ITokenizer tokenizer, ulong seed)
+    static void Write(TextWriter o, PreparedData data)
     {
-        var profile = DatasetProfile.Compute(table, tokenizer);
-        var map = table.LabelMap();
-        var labels = table.LabelIds(map);
+        var table = data.Table;
+        var profile = data.Profile;
+        var map = data.Labels;
 
-        o.WriteLine($"{table.SourcePath}: {table.Count} rows, {map.Count} classes, tokenizer {tokenizer.Name}");
+        o.WriteLine($"{table.SourcePath}: {table.Count} rows, {map.Count} classes, tokenizer {data.Tokenizer.Name}");
         if (!table.SkipReport.IsEmpty) o.WriteLine(table.SkipReport.ToString());
+        if (data.Count < table.Count) o.WriteLine($"sample: {data.Count} of {table.Count} rows (class-stratified, seed {data.Options.SplitSeed})");
         o.WriteLine();
         o.WriteLine("Classes");
         Table(o, ["class", "rows", "share", "min len", "median", "p90", "max len"],
@@ -83,28 +66,26 @@ internal static class InspectCommand
         var cov = profile.Coverage;
         o.WriteLine($"Tokens: {cov.Occurrences} occurrences of {cov.Types} distinct tokens, {cov.Singletons} seen once; " +
                     $"the top {cov.TypesFor90} / {cov.TypesFor95} / {cov.TypesFor99} cover 90 / 95 / 99 %");
-        o.WriteLine();
 
-        var split = table.Splits is not null ? Splitter.FromColumn(table.Splits, labels, profile.RowLengths)
-            : table.Groups is not null ? Splitter.GroupHoldout(labels, table.Groups.ToArray(), 0.8, 0.1, 0.1, seed, profile.RowLengths)
-            : Splitter.StratifiedHoldout(labels, 0.8, 0.1, 0.1, seed, profile.RowLengths);
-        string fractions = table.Splits is null ? " 80/10/10" : "";
-        o.WriteLine($"Split: {split.Summary.Method}{fractions}" + (table.Splits is null ? $", seed {seed}" : ""));
-        Table(o, new[] { "part", "rows", "median len" }.Concat(map.Names).ToArray(),
-            split.Summary.Parts.Select(p => new[] { p.Part, N(p.Rows), F(p.Lengths.Median) }
-                .Concat(p.ClassCounts.Select((c, k) => $"{c} ({P(p.Proportions[k])})")).ToArray()));
-        var vocab = Vocabulary.BuildFromTrain(table.Texts, split, tokenizer);
-        o.WriteLine($"Vocabulary from train: {vocab.Count} ids; unknown rate " + string.Join(", ",
-            vocab.CoverageByPart(table.Texts, split, tokenizer).Select(c => $"{c.Part} {P(c.UnknownRate)} ({c.UnknownTokens} of {c.Tokens})")));
-        o.WriteLine();
-
-        var audit = LeakageAudit.Run(table, split);
-        o.WriteLine(audit.Clean ? "Leakage audit: nothing found" : "Leakage audit");
-        foreach (var f in audit.Findings)
+        for (int f = 1; f <= data.FoldCount; f++)
         {
-            o.WriteLine($"  {f.Kind}: {f.Texts} distinct, {f.Rows} row(s)");
-            foreach (var e in f.Examples)
-                o.WriteLine($"    \"{Shorten(e.Text)}\" {Shorten(e.Detail)} (lines {string.Join(", ", e.Lines)})");
+            var fold = data.Fold(f);
+            o.WriteLine();
+            o.WriteLine(data.FoldCount == 1 ? $"Split: {data.SplitDescription}" : $"Split: {data.SplitDescription} — fold {f} of {data.FoldCount}");
+            Table(o, new[] { "part", "rows", "median len" }.Concat(map.Names).ToArray(),
+                fold.Summary.Parts.Select(p => new[] { p.Part, N(p.Rows), F(p.Lengths.Median) }
+                    .Concat(p.ClassCounts.Select((c, k) => $"{c} ({P(p.Proportions[k])})")).ToArray()));
+            o.WriteLine($"Vocabulary from train: {fold.Vocabulary.Count} ids; unknown rate " + string.Join(", ",
+                fold.Coverage.Select(c => $"{c.Part} {P(c.UnknownRate)} ({c.UnknownTokens} of {c.Tokens})")));
+            o.WriteLine();
+            var audit = fold.Leakage;
+            o.WriteLine(audit.Clean ? "Leakage audit: nothing found" : "Leakage audit");
+            foreach (var finding in audit.Findings)
+            {
+                o.WriteLine($"  {finding.Kind}: {finding.Texts} distinct, {finding.Rows} row(s)");
+                foreach (var e in finding.Examples)
+                    o.WriteLine($"    \"{Shorten(e.Text)}\" {Shorten(e.Detail)} (lines {string.Join(", ", e.Lines)})");
+            }
         }
     }
 
@@ -123,6 +104,6 @@ internal static class InspectCommand
     }
 
     static string N(int v) => v.ToString(CultureInfo.InvariantCulture);
-    static string F(double v) => double.IsNaN(v) ? "-" : v.ToString("0.##", CultureInfo.InvariantCulture);
+    static string F(double v) => double.IsFinite(v) ? v.ToString("0.##", CultureInfo.InvariantCulture) : "–";
     static string P(double v) => (100 * v).ToString("0.0", CultureInfo.InvariantCulture) + "%";
 }

@@ -21,7 +21,7 @@ internal static class ScoreCommand
         var text = new Option<string>("--text") { Description = "Text column", DefaultValueFactory = _ => "text" };
         var label = new Option<string?>("--label") { Description = "Optional label column, copied to the output beside the prediction" };
         var command = new Command("score", "Score rows with a trained model bundle; flag rows it cannot read.") { model, data, outFile, text, label };
-        command.SetAction(parse => CliErrors.Guard(() => TrainCommand.Guarded(() =>
+        command.SetAction(parse => CliErrors.Guard((() =>
             Run(parse.GetValue(model)!, parse.GetValue(data)!, parse.GetValue(outFile)!, parse.GetValue(text)!, parse.GetValue(label)))));
         return command;
     }

@@ -1,5 +1,6 @@
 using Kit.Cli.Commands;
 using Kit.Data;
+using Kit.Experiments;
 
 namespace Kit.Tests.Data;
 
@@ -13,7 +14,12 @@ public sealed class InspectCommandTests : IDisposable
     {
         var o = new StringWriter();
         var e = new StringWriter();
-        int code = InspectCommand.Run(new InspectCommand.Settings(path, columns ?? new ColumnSpec(), tokenizer, policy, 1), o, e);
+        var spec = RunSettings.Find("tokenizer").Apply(RunSettings.Defaults with
+        {
+            DataPath = path, Columns = columns ?? new ColumnSpec(), GroupAware = columns?.Group is not null, SplitSeed = 1,
+            TrainFraction = 0.8, ValidationFraction = 0.1, TestFraction = 0.1,
+        }, tokenizer);
+        int code = InspectCommand.Run(new InspectCommand.Settings(spec, policy), o, e);
         return (code, o.ToString(), e.ToString());
     }
 
@@ -27,7 +33,7 @@ public sealed class InspectCommandTests : IDisposable
         Assert.Equal(0, code);
         Assert.Equal("", err);
         Assert.Contains($"{path}: 60 rows, 2 classes, tokenizer character", output);
-        Assert.Contains("Split: group holdout 80/10/10, seed 1", output);
+        Assert.Contains("Split: group holdout 0.8/0.1/0.1, seed 1", output);
         Assert.Contains("Leakage audit", output);
         Assert.Contains("group in more than one part: 0 distinct, 0 row(s)", output);
         // host0 and host12… repeat across groups, so some texts cross parts: the audit must say so with a count.

@@ -46,31 +46,29 @@ public sealed record RunDiagnostics
         var clock = System.Diagnostics.Stopwatch.StartNew();
         var names = run.Labels.Names;
         var split = run.Split;
-        var used = run.Table.Subset(run.Rows);
 
         stages?.Report("profile, split and leakage audit");
-        var profile = DatasetProfile.Compute(used, run.Tokenizer);
-        int[] lengths = profile.RowLengths;
-        int[] y = run.Rows.Select(r => run.Labels[run.Table.Labels[r]]).ToArray();
-        var splitSummary = SplitSummary.Of(split.Summary.Method, split.Summary.Seed, y, lengths,
-            (Kit.Data.Split.PartNames[0], split.Train), (Kit.Data.Split.PartNames[1], split.Validation), (Kit.Data.Split.PartNames[2], split.Test));
-        var leakage = LeakageAudit.Run(used, split);
-        var coverage = Enumerable.Range(0, 3)
-            .Select(p => run.Vocabulary.Coverage(split.Rows(p).Select(i => run.Tokenizer.Split(used.Texts[i])), Kit.Data.Split.PartNames[p]))
-            .ToArray();
+        // Prepared once with the data: the profile, the split summary, the audit and the coverage are the data's own.
+        var profile = run.Data.Profile;
+        int[] lengths = run.Data.Lengths;
+        var splitSummary = run.Fold.Summary;
+        var leakage = run.Fold.Leakage;
+        var coverage = run.Fold.Coverage;
 
         stages?.Report("test-split scores by length and calibration");
         int[] labels = run.Test.Labels;
         int[] predicted = run.TestMetrics.Predicted;
-        int[] testLengths = split.Test.Select(i => lengths[i]).ToArray();
+        int[] testLengths = run.TestLengths();
         var byLength = LengthBreakdown.Compute(labels, predicted, testLengths, names, LengthBins.Quantiles(options.LengthBins));
         var calibration = CalibrationReport.Compute(labels, run.TestProbabilities, names, options.ReliabilityBins, BinningScheme.EqualWidth,
             options.BootstrapReplicates, options.Seed);
         var equalMass = CalibrationReport.Compute(labels, run.TestProbabilities, names, options.ReliabilityBins, BinningScheme.EqualMass,
             options.BootstrapReplicates, options.Seed);
-        var temperature = TemperatureReport.Compute(run.ValidationLogits, run.Validation.Labels, run.TestLogits, labels, names, options.ReliabilityBins);
-        var after = CalibrationReport.Compute(labels, TemperatureScaling.Apply(run.TestLogits, temperature.Temperature), names,
+        var fitted = TemperatureReport.Compute(run.ValidationLogits, run.Validation.Labels, run.TestLogits, labels, names, options.ReliabilityBins);
+        var after = CalibrationReport.Compute(labels, TemperatureScaling.Apply(run.TestLogits, fitted.Temperature), names,
             options.ReliabilityBins, BinningScheme.EqualWidth, bootstrap: 0);
+        // The temperature's view compares reliability before and after, so the record carries both.
+        var temperature = fitted with { Before = calibration, After = after };
 
         stages?.Report("embedding PCA");
         Projection? embedding = null;
@@ -88,7 +86,7 @@ public sealed record RunDiagnostics
             stages?.Report($"t-SNE of {take} pooled test representations");
             // Stratified rounding can add up to one row per class, so ask for that many fewer and cap at the budget.
             int[] sample = take < run.Test.Count
-                ? SingleRun.StratifiedSample(labels, Math.Max(1, take - names.Count), options.Seed).Take(take).ToArray()
+                ? PreparedData.StratifiedSample(labels, Math.Max(1, take - names.Count), options.Seed).Take(take).ToArray()
                 : Enumerable.Range(0, run.Test.Count).ToArray();
             var subset = run.Test.Subset(sample);
             var pooled = ModelReadout.Pooled(run.Model, subset);

@@ -4,8 +4,6 @@ using Kit.Training;
 
 namespace Kit.Experiments;
 
-public enum TokenizerKind { Character, Byte, Word }
-
 /// <summary>Everything that defines one train-and-evaluate run: data, tokenisation, split, model, training.</summary>
 public sealed record RunSpec
 {
@@ -34,11 +32,14 @@ public sealed record RunSpec
     /// <summary>How much work the report's diagnostics may do (t-SNE budget, bootstrap, table sizes).</summary>
     public DiagnosticsOptions Diagnostics { get; init; } = new();
 
-    public ITokenizer CreateTokenizer() => Tokenizer switch
+    /// <summary>The data-side settings of this run (one holdout split; a sweep adds its folds), as <see cref="PreparedData.Prepare(LabelledTable, PrepareOptions)"/> takes them.</summary>
+    [System.Text.Json.Serialization.JsonIgnore]
+    public PrepareOptions Preparation => new()
     {
-        TokenizerKind.Character => new CharacterTokenizer(FoldCase),
-        TokenizerKind.Byte => new ByteTokenizer(),
-        TokenizerKind.Word => new WordTokenizer(lowerCase: true),
-        _ => throw new ArgumentOutOfRangeException(nameof(Tokenizer)),
+        Tokenizer = Tokenizer, FoldCase = FoldCase, MaxLength = MaxLength, Truncation = Truncation, MinTokenCount = MinTokenCount,
+        TrainFraction = TrainFraction, ValidationFraction = ValidationFraction, TestFraction = TestFraction, GroupAware = GroupAware,
+        SplitSeed = SplitSeed, SampleRows = SampleRows,
     };
+
+    public ITokenizer CreateTokenizer() => Preparation.CreateTokenizer();
 }

@@ -14,48 +14,22 @@ namespace Kit.Experiments;
 /// </summary>
 public sealed class Sweep
 {
-    readonly int[] _labels;
-    readonly IReadOnlyList<string>[] _tokens;
-    readonly int[] _lengths;
-
     public SweepPlan Plan { get; }
-    public LabelledTable Table { get; }
+    /// <summary>The sweep's data, prepared once: every config, seed and fold trains on it.</summary>
+    public PreparedData Data { get; }
+    public LabelledTable Table => Data.Table;
     /// <summary>Table rows in play; splits index positions in this array.</summary>
-    public int[] Rows { get; }
-    public LabelMap Labels { get; }
+    public int[] Rows => Data.Rows;
+    public LabelMap Labels => Data.Labels;
     /// <summary>Fold f's split is Splits[f − 1]; a holdout sweep has one.</summary>
-    public IReadOnlyList<Split> Splits { get; }
+    public IReadOnlyList<Split> Splits => Data.Splits;
     public double[] LengthEdges { get; }
 
     Sweep(SweepPlan plan, LabelledTable table)
     {
         Plan = plan.Validate();
-        Table = table;
-        var spec = plan.Base;
-        Labels = new LabelMap(table.Labels);
-        Rows = spec.SampleRows is int n && n < table.Count
-            ? SingleRun.StratifiedSample(table.Labels.Select(l => Labels[l]).ToArray(), n, spec.SplitSeed)
-            : Enumerable.Range(0, table.Count).ToArray();
-        _labels = Rows.Select(r => Labels[table.Labels[r]]).ToArray();
-        string[]? groups = spec.GroupAware && table.Groups is not null ? Rows.Select(r => table.Groups[r]).ToArray() : null;
-        if (plan.Folds is int k)
-        {
-            // The validation share of each fold's training part matches the holdout's train : validation ratio.
-            double validation = spec.ValidationFraction / (spec.TrainFraction + spec.ValidationFraction);
-            Splits = groups is not null
-                ? Splitter.GroupKFold(_labels, groups, k, spec.SplitSeed, validation)
-                : Splitter.StratifiedKFold(_labels, k, spec.SplitSeed, validation);
-        }
-        else
-        {
-            Splits = [groups is not null
-                ? Splitter.GroupHoldout(_labels, groups, spec.TrainFraction, spec.ValidationFraction, spec.TestFraction, spec.SplitSeed)
-                : Splitter.StratifiedHoldout(_labels, spec.TrainFraction, spec.ValidationFraction, spec.TestFraction, spec.SplitSeed)];
-        }
-        var tokenizer = spec.CreateTokenizer();
-        _tokens = Rows.Select(r => tokenizer.Split(table.Texts[r])).ToArray();
-        _lengths = _tokens.Select(t => t.Count).ToArray();
-        var edges = Kit.Diagnostics.LengthBins.Quantiles(plan.LengthBins).EdgesFor(_lengths.Select(l => (double)l).ToArray());
+        Data = PreparedData.Prepare(table, plan.Preparation);
+        var edges = Kit.Diagnostics.LengthBins.Quantiles(plan.LengthBins).EdgesFor(Data.Lengths.Select(l => (double)l).ToArray());
         LengthEdges = edges[^1] > edges[0] ? edges : [edges[0], edges[0] + 1];
     }
 
@@ -69,20 +43,22 @@ public sealed class Sweep
             throw new ArgumentException($"run {key.Id} does not fit this sweep ({Splits.Count} fold(s))");
         var config = Plan.ConfigNamed(key.Config);
         var split = Splits[key.Fold - 1];
+        var tokens = Data.Pieces;
+        var labels = Data.LabelIds;
         var clock = Stopwatch.StartNew();
         var inv = CultureInfo.InvariantCulture;
         if (config.IsBaseline)
         {
-            var nb = NgramNaiveBayes.Fit(split.Train.Select(p => _tokens[p]).ToArray(), split.Train.Select(p => _labels[p]).ToArray(),
+            var nb = NgramNaiveBayes.Fit(split.Train.Select(p => tokens[p]).ToArray(), split.Train.Select(p => labels[p]).ToArray(),
                 Labels.Count, Plan.NgramMin, Plan.NgramMax, Plan.NgramAlpha);
             double trainSeconds = clock.Elapsed.TotalSeconds;
-            var probs = split.Test.Select(p => nb.Probabilities(_tokens[p])).ToArray();
-            string model = string.Create(inv, $"multinomial naive Bayes, {Plan.Base.CreateTokenizer().Name} {Plan.NgramMin}–{Plan.NgramMax}-grams, α = {Plan.NgramAlpha}");
+            var probs = split.Test.Select(p => nb.Probabilities(tokens[p])).ToArray();
+            string model = string.Create(inv, $"multinomial naive Bayes, {Data.Tokenizer.Name} {Plan.NgramMin}–{Plan.NgramMax}-grams, α = {Plan.NgramAlpha}");
             return Score(key, config, model, split, probs, nb.ParameterCount, [], 0, new RunTiming(trainSeconds, clock.Elapsed.TotalSeconds, 1));
         }
         var spec = config.Apply(Plan.Base);
         spec = spec with { Training = spec.Training with { Seed = key.Seed } };
-        var run = FoldRun.Execute(spec, Table, Rows, split, progress, cancel);
+        var run = FoldRun.Execute(spec, Data, key.Fold, progress, cancel);
         var epochs = run.History.Epochs.Select(e => new EpochPoint(e.Epoch, e.TrainLoss, e.TrainAccuracy, e.ValidationLoss, e.ValidationAccuracy)).ToArray();
         string description = string.Create(inv,
             $"{spec.Cell.ToString().ToLowerInvariant()} embed {spec.EmbeddingSize} hidden {spec.HiddenSize} layers {spec.Layers}{(spec.Bidirectional ? " bidirectional" : "")} pooling {spec.Pooling.ToString().ToLowerInvariant()}, {spec.Training.Epochs} epochs, batch {spec.Training.BatchSize}, lr {spec.Training.LearningRate}");
@@ -95,10 +71,10 @@ public sealed class Sweep
         IReadOnlyList<EpochPoint> epochs, int bestEpoch, RunTiming timing)
     {
         var names = Labels.Names;
-        int[] y = split.Test.Select(p => _labels[p]).ToArray();
+        int[] y = split.Test.Select(p => Data.LabelIds[p]).ToArray();
         var metrics = ClassificationMetrics.Compute(y, probabilities, names);
         var calibration = CalibrationReport.Compute(y, probabilities, names, Plan.CalibrationBins, bootstrap: 0);
-        var byLength = LengthBreakdown.Compute(y, metrics.Predicted, split.Test.Select(p => _lengths[p]).ToArray(), names,
+        var byLength = LengthBreakdown.Compute(y, metrics.Predicted, split.Test.Select(p => Data.Lengths[p]).ToArray(), names,
             Kit.Diagnostics.LengthBins.Edges(LengthEdges));
         return new RunRecord
         {
@@ -108,7 +84,7 @@ public sealed class Sweep
             LogLoss = metrics.LogLoss, Brier = metrics.Brier, Ece = calibration.Ece, Mce = calibration.Mce, ClasswiseEce = calibration.ClasswiseEce,
             Reliability = RunRecord.ReliabilityOf(calibration), ByLength = RunRecord.LengthsOf(byLength),
             Epochs = epochs, BestEpoch = bestEpoch, ClassNames = names.ToArray(),
-            TestRows = split.Test.Select(p => Rows[p]).ToArray(), TestLabels = y, Predicted = metrics.Predicted, Timing = timing,
+            TestRows = Data.TableRows(split.Test), TestLabels = y, Predicted = metrics.Predicted, Timing = timing,
         };
     }
 }

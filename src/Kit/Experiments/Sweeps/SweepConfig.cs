@@ -1,6 +1,4 @@
 using System.Globalization;
-using Kit.Models;
-using Kit.Training;
 
 namespace Kit.Experiments;
 
@@ -13,19 +11,8 @@ public sealed record SweepConfig
 {
     public const string BaselineName = "naive-bayes";
 
-    /// <summary>Setting keys in the order names are written, with what each accepts.</summary>
-    public static readonly IReadOnlyList<(string Key, string Accepts)> Keys =
-    [
-        ("cell", "gru, lstm or rnn"),
-        ("embed", "a positive integer (embedding size)"),
-        ("hidden", "a positive integer (hidden size)"),
-        ("layers", "a positive integer"),
-        ("bidirectional", "true or false"),
-        ("pooling", "last, mean, max or attention"),
-        ("epochs", "a positive integer"),
-        ("batch", "a positive integer (batch size)"),
-        ("lr", "a positive number (learning rate)"),
-    ];
+    /// <summary>Grid keys in the order names are written, with what each accepts (see <see cref="RunSettings"/>).</summary>
+    public static IReadOnlyList<(string Key, string Accepts)> Keys { get; } = RunSettings.GridKeys.Select(k => (k.Key, k.Accepts)).ToArray();
 
     public string Name { get; }
     public IReadOnlyDictionary<string, string> Settings { get; }
@@ -49,11 +36,16 @@ public sealed record SweepConfig
         foreach (var (rawKey, rawValue) in settings)
         {
             string key = rawKey.Trim().ToLowerInvariant(), value = rawValue.Trim().ToLowerInvariant();
-            var known = Keys.FirstOrDefault(k => k.Key == key);
-            if (known.Key is null)
-                throw new ArgumentException($"unknown sweep setting '{rawKey}'; known: {string.Join(", ", Keys.Select(k => k.Key))}");
+            var known = RunSettings.GridKeys.FirstOrDefault(k => k.Key == key);
+            if (known is null)
+            {
+                bool dataSetting = RunSettings.All.Any(k => k.Key == key);
+                throw new ArgumentException(dataSetting
+                    ? $"'{rawKey}' is fixed for the whole sweep (it shapes the prepared data); give it as --{key}, not in the grid"
+                    : $"unknown sweep setting '{rawKey}'; known: {string.Join(", ", Keys.Select(k => k.Key))}");
+            }
             if (!map.TryAdd(key, value)) throw new ArgumentException($"sweep setting '{key}' given twice in one config");
-            try { Apply(new RunSpec { DataPath = "" }, key, value); }
+            try { known.Write(RunSettings.Defaults, value); }
             catch (FormatException) { throw new ArgumentException($"sweep setting {key}={rawValue}: expected {known.Accepts}"); }
         }
         return new SweepConfig(map, baseline: false);
@@ -64,35 +56,9 @@ public sealed record SweepConfig
     {
         if (IsBaseline) return baseSpec;
         var spec = baseSpec;
-        foreach (var key in Keys.Select(k => k.Key).Where(Settings.ContainsKey)) spec = Apply(spec, key, Settings[key]);
+        foreach (var key in RunSettings.GridKeys.Where(k => Settings.ContainsKey(k.Key))) spec = key.Apply(spec, Settings[key.Key]);
         return spec;
     }
-
-    static RunSpec Apply(RunSpec s, string key, string value) => key switch
-    {
-        "cell" => s with { Cell = value switch { "gru" => CellKind.Gru, "lstm" => CellKind.Lstm, "rnn" => CellKind.Rnn, _ => throw new FormatException() } },
-        "embed" => s with { EmbeddingSize = Positive(value) },
-        "hidden" => s with { HiddenSize = Positive(value) },
-        "layers" => s with { Layers = Positive(value) },
-        "bidirectional" => s with { Bidirectional = value switch { "true" => true, "false" => false, _ => throw new FormatException() } },
-        "pooling" => s with
-        {
-            Pooling = value switch
-            {
-                "last" => PoolingKind.Last, "mean" => PoolingKind.Mean, "max" => PoolingKind.Max, "attention" => PoolingKind.Attention,
-                _ => throw new FormatException(),
-            },
-        },
-        "epochs" => s with { Training = s.Training with { Epochs = Positive(value) } },
-        "batch" => s with { Training = s.Training with { BatchSize = Positive(value) } },
-        "lr" => s with { Training = s.Training with { LearningRate = PositiveNumber(value) } },
-        _ => throw new ArgumentException($"unknown sweep setting '{key}'"),
-    };
-
-    static int Positive(string v) => int.TryParse(v, NumberStyles.None, CultureInfo.InvariantCulture, out int n) && n > 0 ? n : throw new FormatException();
-
-    static double PositiveNumber(string v) =>
-        double.TryParse(v, NumberStyles.Float, CultureInfo.InvariantCulture, out double x) && x > 0 && double.IsFinite(x) ? x : throw new FormatException();
 
     public override string ToString() => Name;
 }

@@ -26,6 +26,9 @@ public sealed record SweepPlan
 
     public IReadOnlyList<SweepConfig> AllConfigs => [.. Configs, SweepConfig.Baseline];
 
+    /// <summary>How the sweep's data is prepared: the base spec's data settings with this plan's folds.</summary>
+    public Kit.Data.PrepareOptions Preparation => Base.Preparation with { Folds = Folds };
+
     public SweepPlan Validate()
     {
         if (Configs.Count == 0) throw new ArgumentException("a sweep needs at least one config");
