@@ -11,6 +11,10 @@ public sealed record TemperatureReport(double Temperature, bool AtSearchBound, d
     double TestNllBefore, double TestNllAfter, double TestEceBefore, double TestEceAfter, double TestAccuracy, int Bins)
 {
     public double T => Temperature;
+    /// <summary>Test-split calibration before scaling (what the view compares against).</summary>
+    public CalibrationReport? Before { get; init; }
+    /// <summary>Test-split calibration after dividing the logits by <see cref="Temperature"/>.</summary>
+    public CalibrationReport? After { get; init; }
 
     public static TemperatureReport Compute(double[][] validationLogits, int[] validationLabels, double[][] testLogits, int[] testLabels,
         IReadOnlyList<string> classNames, int bins = 15)
@@ -31,7 +35,7 @@ public sealed record TemperatureReport(double Temperature, bool AtSearchBound, d
             TemperatureScaling.NegativeLogLikelihood(validationLogits, validationLabels, t),
             TemperatureScaling.NegativeLogLikelihood(testLogits, testLabels, 1),
             TemperatureScaling.NegativeLogLikelihood(testLogits, testLabels, t),
-            before.Ece, after.Ece, (double)correct / testLogits.Length, bins);
+            before.Ece, after.Ece, (double)correct / testLogits.Length, bins) { Before = before, After = after };
     }
 
     /// <summary>Stage/Split/Metric/Value rows (before and after scaling).</summary>

@@ -97,6 +97,11 @@ public static class CalibrationViews
         };
     }
 
+    /// <summary>The temperature report drawn from the before/after calibration it carries.</summary>
+    public static StackView Temperature(TemperatureReport t, string split = "test") =>
+        Temperature(t, t.Before ?? throw new ArgumentException("this temperature report carries no calibration before scaling", nameof(t)),
+            t.After ?? throw new ArgumentException("this temperature report carries no calibration after scaling", nameof(t)), split);
+
     /// <summary>Before and after dividing the logits by the temperature fitted on validation, on the same test rows.</summary>
     public static StackView Temperature(TemperatureReport t, CalibrationReport before, CalibrationReport after, string split = "test")
     {

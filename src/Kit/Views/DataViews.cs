@@ -74,6 +74,10 @@ public static class DataViews
         return new ChartView("Token length histogram", traces, layout) { Caption = "Stacked bars: each colour is one class." };
     }
 
+    /// <summary>The split drawn with the class names it carries (class ids when it carries none).</summary>
+    public static StackView Split(SplitSummary s) =>
+        Split(s, s.ClassNames ?? Enumerable.Range(0, s.Parts.Count == 0 ? 0 : s.Parts[0].ClassCounts.Length).Select(c => c.ToString(Inv)).ToArray());
+
     public static StackView Split(SplitSummary s, IReadOnlyList<string> classNames)
     {
         string table = Html.Table(new[] { "part", "rows", "share of rows", "median length", "90th pct length", "max length" },
@@ -128,6 +132,39 @@ public static class DataViews
             sb.Append(Html.Table(new[] { "finding", "text", "detail", "source lines" }, examples, "Examples", numericRight: false));
         return new TextView("Leakage audit", sb.ToString());
     }
+
+    /// <summary>How a vocabulary covers one part (or any rows it was measured on).</summary>
+    public static TextView Coverage(VocabularyCoverage v) => new($"Vocabulary coverage — {(v.Part.Length == 0 ? "rows" : v.Part)}",
+        Html.Table(new[] { "tokens", "unknown tokens", "unknown rate", "distinct types", "unknown types" }, new[]
+        {
+            new[] { v.Tokens.ToString("N0", Inv), v.UnknownTokens.ToString("N0", Inv), Html.Pct(v.UnknownRate, 2), v.Types.ToString("N0", Inv), v.UnknownTypes.ToString("N0", Inv) },
+        }));
+
+    /// <summary>
+    /// Prepared data at a glance: what was prepared and how, then the profile, the split, the leakage audit and the
+    /// encoding of its first fold (every fold of a k-fold split has its own; <c>data.Fold(k)</c> shows another).
+    /// </summary>
+    public static StackView Prepared(PreparedData d)
+    {
+        var fold = d.Fold(1);
+        string summary = Html.Table(new[] { "item", "value" }, new[]
+        {
+            new[] { "source", $"{Path.GetFileName(d.Table.SourcePath)} — {d.Count.ToString("N0", Inv)} rows in play of {d.Table.Count.ToString("N0", Inv)}, {d.Labels.Count} classes" },
+            new[] { "split", d.SplitDescription + (d.FoldCount > 1 ? $" (shown: fold 1 of {d.FoldCount})" : "") },
+            new[] { "parts", $"train {fold.Split.Train.Length.ToString("N0", Inv)} · validation {fold.Split.Validation.Length.ToString("N0", Inv)} · test {fold.Split.Test.Length.ToString("N0", Inv)}" },
+            new[] { "tokens", $"{d.Tokenizer.Name}; vocabulary of {fold.Vocabulary.Count.ToString("N0", Inv)} ids from the training part only; max length {d.Options.MaxLength}" },
+        }, numericRight: false);
+        return new StackView("Prepared data", new IView[]
+        {
+            new TextView("", summary), Profile(d.Profile), Split(fold.Summary), Leakage(fold.Leakage), Encoding(fold.Coverage, fold.Truncation),
+        });
+    }
+
+    /// <summary>One fold of prepared data: its split, audit and encoding.</summary>
+    public static StackView Fold(PreparedFold f) => new($"Fold {f.Number} of {f.Data.FoldCount}", new IView[]
+    {
+        Split(f.Summary), Leakage(f.Leakage), Encoding(f.Coverage, f.Truncation),
+    });
 
     public static TextView Encoding(IReadOnlyList<VocabularyCoverage> coverage, TruncationReport truncation)
     {

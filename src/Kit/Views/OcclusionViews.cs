@@ -13,6 +13,13 @@ public static class OcclusionViews
 {
     static readonly CultureInfo Inv = CultureInfo.InvariantCulture;
 
+    /// <summary>One explained test row: its text with each token's effect, and why it was picked.</summary>
+    public static TextView Case(Kit.Experiments.OcclusionCase c) =>
+        Tokens(c.Result, c.Pieces, c.TargetClass, $"Occlusion: why “{Shorten(c.Text, 40)}” was called {c.PredictedClass}", c.Unknown,
+            $"Picked as {c.Why}. True class {c.TrueClass}, predicted {c.PredictedClass}. Each token was replaced in turn by the unknown token.");
+
+    static string Shorten(string s, int n) => s.Length <= n ? s : s[..(n - 1)] + "…";
+
     /// <param name="pieces">What each position held, as text (one per position).</param>
     /// <param name="unknown">Positions whose token was not in the vocabulary (drawn underlined), or null.</param>
     public static TextView Tokens(OcclusionResult r, IReadOnlyList<string> pieces, string targetClass, string? heading = null,

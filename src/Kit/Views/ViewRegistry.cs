@@ -13,6 +13,9 @@ public static class ViewRegistry
     static readonly object Gate = new();
     static readonly Dictionary<Type, Func<object, IView>> Views = new();
 
+    // The kit's own views are there before anyone asks (see RecordViews).
+    static ViewRegistry() => RecordViews.RegisterAll();
+
     /// <summary>Raised after a type is registered, so a front end that is already running can pick it up.</summary>
     public static event Action<Type>? Registered;
 

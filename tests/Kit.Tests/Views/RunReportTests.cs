@@ -136,10 +136,18 @@ public class RunReportTests(SmallRun small) : IClassFixture<SmallRun>
     [Fact]
     public void The_run_report_holds_every_view_and_renders()
     {
-        var views = RunReport.Views(_run, _d);
+        var report = RunReport.Of(_run, _d);
+        var views = report.Views;
+        Assert.Equal(RunReport.SectionNames, report.Sections.Select(s => s.Name));
+        Assert.Equal(views, report.Sections.SelectMany(s => s.Views));
+        // Sections are reached by name, never by position: each holds the views its name promises.
+        Assert.Equal(["Training history"], report.Training.Views.Select(v => v.Title));
+        Assert.Same(report.Calibration, report["CALIBRATION"]);
+        Assert.All(report.Occlusion.Views, v => Assert.StartsWith("Occlusion: why", v.Title));
+        Assert.Throws<KeyNotFoundException>(() => report["scoring"]);
         string[] expected =
         {
-            "Run setup", "Dataset profile", "Split summary", "Leakage audit", "Vocabulary and truncation", "Training history",
+            "Run setup", "Dataset profile", "Split summary", "Vocabulary and truncation", "Leakage audit", "Training history",
             "Metrics (test split)", "Per-class precision, recall and F1", "Confusion matrix (counts)", "Confusion matrix (normalised)",
             "Accuracy by length", "Recall by class and length", "Reliability (equal-width)", "Reliability (equal-mass)", "Per-class reliability",
             "Temperature scaling", "Projection of token embeddings", "Projection of pooled test representations", "Error analysis",
