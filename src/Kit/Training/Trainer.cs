@@ -36,11 +36,11 @@ public static class Trainer
         if (train.Count == 0) throw new ArgumentException("the training set is empty");
         if (validation is { Count: 0 }) validation = null;
 
-        IBatchSampler sampler = options.Bucketed
-            ? new BucketBatchSampler(options.BatchSize, options.Seed)
-            : new RandomBatchSampler(options.BatchSize, options.Seed);
+        IBatchPlan plan = options.Bucketed
+            ? new LengthBuckets(options.BatchSize, options.Seed)
+            : new ShuffledBatches(options.BatchSize, options.Seed);
         long totalSteps = 0;
-        for (int e = 1; e <= options.Epochs; e++) totalSteps += sampler.Batches(train, e).Count();
+        for (int e = 1; e <= options.Epochs; e++) totalSteps += plan.Batches(train, e).Count();
 
         var named = model.named_parameters().Select(p => (p.name, (Tensor)p.parameter)).ToArray();
         var parameters = named.Select(p => p.Item2).ToArray();
@@ -87,7 +87,7 @@ public static class Trainer
             var epochClock = Stopwatch.StartNew();
             torch.manual_seed(EpochSeed(options.Seed, epoch));
             model.train();
-            var batches = sampler.Batches(train, epoch).ToList();
+            var batches = plan.Batches(train, epoch).ToList();
             double lossSum = 0, normSum = 0, rate = double.NaN;
             long seen = 0;
             int clipped = 0;
@@ -208,7 +208,7 @@ public static class Trainer
         double lossSum = 0;
         long correct = 0;
         long[] tp = new long[classes], predicted = new long[classes], actual = new long[classes];
-        foreach (var rows in new SequentialBatchSampler(batchSize).Batches(set, 0))
+        foreach (var rows in new InOrderBatches(batchSize).Batches(set, 0))
         {
             using var scope = torch.NewDisposeScope();
             using var batch = BatchBuilder.Build(set, rows);

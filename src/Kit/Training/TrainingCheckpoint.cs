@@ -10,7 +10,7 @@ namespace Kit.Training;
 /// Everything a run needs to continue after its last finished epoch: current and best weights, optimiser moments
 /// and step count, schedule and early-stopping state, the history so far, and a fingerprint of the model config,
 /// training options and data so a checkpoint is never resumed into a different run. The random state needs no
-/// saving: every epoch reseeds the engine and the batch sampler from (seed, epoch).
+/// saving: every epoch reseeds the engine and the batch plan from (seed, epoch).
 /// </summary>
 internal sealed class TrainingCheckpoint : IDisposable
 {
