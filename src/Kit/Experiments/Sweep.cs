@@ -43,8 +43,8 @@ public sealed class Sweep
             // The validation share of each fold's training part matches the holdout's train : validation ratio.
             double validation = spec.ValidationFraction / (spec.TrainFraction + spec.ValidationFraction);
             Splits = groups is not null
-                ? Splitter.GroupKFold(_labels, groups, k, spec.SplitSeed, validation)
-                : Splitter.StratifiedKFold(_labels, k, spec.SplitSeed, validation);
+                ? Splitter.FoldsByGroup(_labels, groups, k, spec.SplitSeed, validation)
+                : Splitter.FoldsByClass(_labels, k, spec.SplitSeed, validation);
         }
         else
         {
