@@ -18,16 +18,16 @@ public static class MetricsViews
             new[] { "Brier score", Html.Num(m.Brier) },
         };
         string headline = Html.Table(new[] { "metric", split }, rows, $"Headline metrics on the {split} split");
-        string perClass = Html.Table(new[] { "class", "precision", "recall", "F1", "support" },
-            m.PerClass.Select(c => (IReadOnlyList<string>)new[] { c.Class, Html.Num(c.Precision), Html.Num(c.Recall), Html.Num(c.F1), c.Support.ToString() }),
+        string perClass = Html.Table(new[] { "class", "precision", "recall", "F1", "true rows", "predicted rows" },
+            m.PerClass.Select(c => (IReadOnlyList<string>)new[] { c.Class, Html.Num(c.Precision), Html.Num(c.Recall), Html.Num(c.F1), c.TrueRows.ToString(), c.PredictedRows.ToString() }),
             "Per class", textColumns: new[] { 0 });
         return new TextView($"Metrics ({split} split)", headline + perClass);
     }
 
-    /// <summary>Precision, recall and F1 side by side per class, support in the tick label.</summary>
+    /// <summary>Precision, recall and F1 side by side per class, the class's true rows in the tick label.</summary>
     public static ChartView PerClass(ClassificationMetrics m, string split = "test")
     {
-        var ticks = Figure.Texts(m.PerClass.Select(c => $"{c.Class} (n={c.Support})"));
+        var ticks = Figure.Texts(m.PerClass.Select(c => $"{c.Class} (n={c.TrueRows})"));
         var traces = new JsonArray();
         var series = new (string Name, Func<ClassScores, double> Get)[] { ("precision", c => c.Precision), ("recall", c => c.Recall), ("F1", c => c.F1) };
         for (int i = 0; i < series.Length; i++)
@@ -40,7 +40,7 @@ public static class MetricsViews
                 ["hovertemplate"] = $"%{{x}}<br>{name} %{{y:.3f}}<extra></extra>",
             });
         }
-        var weakest = m.PerClass.Where(c => c.Support > 0).OrderBy(c => c.F1).FirstOrDefault();
+        var weakest = m.PerClass.Where(c => c.TrueRows > 0).OrderBy(c => c.F1).FirstOrDefault();
         string title = weakest is null ? $"Per-class scores ({split} split)"
             : $"Per-class scores ({split} split) — weakest class by F1: {weakest.Class} ({Html.Num(weakest.F1)})";
         var layout = Theme.Layout(title, "class (test rows in brackets)", "score (0 to 1)", height: 420);

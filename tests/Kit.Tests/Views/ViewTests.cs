@@ -61,15 +61,15 @@ public class ViewTests
     }
 
     [Fact]
-    public void Per_class_bars_are_the_records_scores_with_support_in_the_ticks()
+    public void Per_class_bars_are_the_records_scores_with_true_rows_in_the_ticks()
     {
         var chart = MetricsViews.PerClass(S.Metrics);
         Assert.Equal(S.Metrics.PerClass.Select(c => (double?)c.Precision), FigureChecks.Numbers(FigureChecks.Trace(chart, "precision")["y"]));
         Assert.Equal(S.Metrics.PerClass.Select(c => (double?)c.Recall), FigureChecks.Numbers(FigureChecks.Trace(chart, "recall")["y"]));
         Assert.Equal(S.Metrics.PerClass.Select(c => (double?)c.F1), FigureChecks.Numbers(FigureChecks.Trace(chart, "F1")["y"]));
         var ticks = FigureChecks.Trace(chart, "F1")["x"]!.AsArray().Select(t => t!.GetValue<string>()).ToArray();
-        Assert.Equal($"alpha (n={S.Metrics.PerClass[0].Support})", ticks[0]);
-        Assert.Equal($"&lt;/script&gt;&lt;b&gt;bold&lt;/b&gt; (n={S.Metrics.PerClass[2].Support})", ticks[2]);
+        Assert.Equal($"alpha (n={S.Metrics.PerClass[0].TrueRows})", ticks[0]);
+        Assert.Equal($"&lt;/script&gt;&lt;b&gt;bold&lt;/b&gt; (n={S.Metrics.PerClass[2].TrueRows})", ticks[2]);
     }
 
     [Fact]
