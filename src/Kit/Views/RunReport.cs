@@ -1,5 +1,6 @@
 using System.Globalization;
 using Kit.Experiments;
+using Kit.Training;
 
 namespace Kit.Views;
 
@@ -14,6 +15,21 @@ public static class RunReport
     public static IReadOnlyList<IView> Views(RunOutcome run, IProgress<string>? stages = null) =>
         Views(run, RunDiagnostics.Compute(run, run.Spec.Diagnostics, stages));
 
+    /// <summary>The optimiser that actually ran, with the settings that matter for it.</summary>
+    internal static string Optimiser(TrainingOptions t)
+    {
+        var inv = CultureInfo.InvariantCulture;
+        string name = t.Optimizer switch
+        {
+            OptimizerKind.Adam => "Adam",
+            OptimizerKind.AdamW => "AdamW",
+            OptimizerKind.Sgd => $"SGD (momentum {t.Momentum.ToString(inv)})",
+            _ => t.Optimizer.ToString(),
+        };
+        string decay = t.WeightDecay > 0 ? $", weight decay {t.WeightDecay.ToString(inv)}" : "";
+        return $"{name} lr {t.LearningRate.ToString(inv)}{decay}";
+    }
+
     public static IReadOnlyList<IView> Views(RunOutcome run, RunDiagnostics d)
     {
         var s = run.Spec;
@@ -24,7 +40,7 @@ public static class RunReport
             new[] { "split", $"{(s.GroupAware && run.Table.Groups is not null ? "group-aware" : "stratified")} holdout {s.TrainFraction:0.##}/{s.ValidationFraction:0.##}/{s.TestFraction:0.##}: {run.Split.Train.Length}/{run.Split.Validation.Length}/{run.Split.Test.Length} rows (seed {s.SplitSeed})" },
             new[] { "tokens", $"{run.Tokenizer.Name}, vocabulary {run.Vocabulary.Count} ids from the training part only (pad = 0, unknown = 1), max length {s.MaxLength}" },
             new[] { "model", $"{s.Cell} embedding {s.EmbeddingSize}, hidden {s.HiddenSize}, layers {s.Layers}{(s.Bidirectional ? ", bidirectional" : "")}, pooling {s.Pooling}; {run.Model.ParameterCount().ToString("N0", inv)} parameters" },
-            new[] { "training", $"{run.History.Epochs.Count} epochs, batch {s.Training.BatchSize}, Adam lr {s.Training.LearningRate.ToString(inv)}, seed {s.Training.Seed}; best epoch {run.History.BestEpoch}{(run.History.StopReason is null ? "" : "; " + run.History.StopReason)}" },
+            new[] { "training", $"{run.History.Epochs.Count} epochs, batch {s.Training.BatchSize}, {Optimiser(s.Training)}, seed {s.Training.Seed}; best epoch {run.History.BestEpoch}{(run.History.StopReason is null ? "" : "; " + run.History.StopReason)}" },
             new[] { "time", $"{run.Elapsed.TotalSeconds.ToString("F1", inv)} s to train and score, {d.Elapsed.TotalSeconds.ToString("F1", inv)} s for the diagnostics, on {Environment.ProcessorCount} cores" },
         }, numericRight: false);
         var views = new List<IView>
