@@ -57,14 +57,16 @@ public static class Trainer
         Dictionary<string, Tensor>? bestWeights = null;
         string fingerprint = RunFingerprint.Of(model.Config, options, train, validation);
         string? checkpointPath = options.CheckpointDirectory is null ? null : TrainingCheckpoint.PathIn(options.CheckpointDirectory);
+        // Possibly under the former file name; the next save writes the current name and removes the former file.
+        string? resumeFrom = options.Resume && options.CheckpointDirectory is not null ? TrainingCheckpoint.FindIn(options.CheckpointDirectory) : null;
         bool finished = false;
 
-        if (options.Resume && checkpointPath is not null && File.Exists(checkpointPath))
+        if (resumeFrom is not null)
         {
-            using var ck = TrainingCheckpoint.Load(checkpointPath);
+            using var ck = TrainingCheckpoint.Load(resumeFrom);
             if (ck.State.Fingerprint != fingerprint)
-                throw new BundleError(checkpointPath, "the checkpoint belongs to a different run (model config, training options or data differ); delete it or train without resuming");
-            TensorArchive.LoadInto(model, ck.Weights, checkpointPath);
+                throw new BundleError(resumeFrom, "the checkpoint belongs to a different run (model config, training options or data differ); delete it or train without resuming");
+            TensorArchive.LoadInto(model, ck.Weights, resumeFrom);
             optimizer.LoadState(ck.State.OptimizerSteps, ck.OptimizerState);
             schedule.Load(ck.State.Schedule);
             bestWeights = ck.BestWeights is null ? null : Clone(ck.BestWeights);
@@ -177,6 +179,7 @@ public static class Trainer
                     OptimizerState = Clone(optimizer.StateTensors),
                 };
                 ck.Save(checkpointPath);
+                if (resumeFrom is not null && resumeFrom != checkpointPath) File.Delete(resumeFrom);
             }
         }
 
@@ -191,6 +194,9 @@ public static class Trainer
 
     /// <summary>Where <see cref="Fit"/> keeps the per-epoch checkpoint inside a checkpoint directory.</summary>
     public static string CheckpointPath(string checkpointDirectory) => TrainingCheckpoint.PathIn(checkpointDirectory);
+
+    /// <summary>The checkpoint a resume would continue from (current or former file name), or null when there is none.</summary>
+    public static string? ResumeCheckpoint(string checkpointDirectory) => TrainingCheckpoint.FindIn(checkpointDirectory);
 
     /// <summary>Mean cross-entropy and accuracy over a set, in evaluation mode, without gradients.</summary>
     public static (double Loss, double Accuracy) Evaluate(SequenceClassifier model, EncodedSet set, int batchSize = 256)
