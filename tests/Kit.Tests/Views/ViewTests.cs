@@ -116,6 +116,9 @@ public class ViewTests
         Assert.Equal(filled.Select(b => (double?)b.Accuracy), FigureChecks.Numbers(points["y"]));
         Assert.Equal(S.Labels.Length, FigureChecks.Numbers(FigureChecks.Trace(chart, "rows per bin")["y"]).Sum(v => v ?? 0));
         Assert.Contains("equal-mass", FigureChecks.Title(CalibrationViews.Reliability(S.Calibration(BinningScheme.EqualMass))));
+        var diagonal = FigureChecks.Trace(chart, "confidence = accuracy");
+        Assert.Equal(new double?[] { 0, 1 }, FigureChecks.Numbers(diagonal["x"]));
+        Assert.Equal(new double?[] { 0, 1 }, FigureChecks.Numbers(diagonal["y"]));
     }
 
     [Fact]
@@ -212,9 +215,10 @@ public class ViewTests
         var e = S.Errors();
         string html = ErrorViews.Tables(e).ToHtml();
         Assert.DoesNotContain(ViewSamples.Hostile, html);
-        foreach (var m in e.ConfidentMistakes) Assert.Contains(Html.Escape(m.Text), html);
+        foreach (var m in e.SureMistakes) Assert.Contains(Html.Escape(m.Text), html);
         Assert.Contains($"{e.Mistakes} of {e.Count}", html);
-        Assert.Equal(e.ConfidentMistakes.Count + e.HighestLoss.Count + e.ConfusedPairs.Count + 3, Regex.Matches(html, "<tr>").Count);
+        Assert.Equal(e.SureMistakes.Count + e.CostliestRows.Count + e.MixedUpPairs.Count + 3, Regex.Matches(html, "<tr>").Count);
+        foreach (var caption in new[] { "Wrong and sure", "Costliest rows", "Class pairs mixed up most often" }) Assert.Contains(caption, html);
     }
 
     [Fact]
