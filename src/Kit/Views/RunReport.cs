@@ -51,7 +51,7 @@ public static class RunReport
             DataViews.Leakage(d.Leakage),
             DataViews.Encoding(d.Coverage, run.Truncation),
             HistoryViews.Curves(run.History),
-            MetricsViews.Summary(run.TestMetrics),
+            MetricsViews.Summary(run.TestMetrics, d.TestIntervals),
             MetricsViews.PerClass(run.TestMetrics),
             MetricsViews.Confusion(run.TestMetrics, normalised: false),
             MetricsViews.Confusion(run.TestMetrics, normalised: true),

@@ -210,6 +210,20 @@ public class ViewTests
     }
 
     [Fact]
+    public void The_metrics_summary_shows_accuracy_and_macro_f1_intervals_when_given()
+    {
+        var intervals = HeadlineIntervals.Of(S.Metrics, 300, 5);
+        string html = MetricsViews.Summary(S.Metrics, intervals).ToHtml();
+        Assert.Contains("95 % interval", html);
+        Assert.Contains($"{Html.Pct(intervals.AccuracyLow)} – {Html.Pct(intervals.AccuracyHigh)}", html);
+        Assert.Contains($"{Html.Num(intervals.MacroF1Low)} – {Html.Num(intervals.MacroF1High)}", html);
+        Assert.Contains("<th>true rows</th>", html);
+        Assert.DoesNotContain("support", html);
+        string plain = MetricsViews.Summary(S.Metrics).ToHtml();
+        Assert.DoesNotContain("95 % interval", plain);
+    }
+
+    [Fact]
     public void Error_tables_escape_the_text_and_list_the_records_rows()
     {
         var e = S.Errors();
