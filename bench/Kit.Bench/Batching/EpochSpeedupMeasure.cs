@@ -49,7 +49,7 @@ public sealed class EpochSpeedupMeasure : IMeasure
             foreach (var (name, value) in bucketedModel.state_dict())
                 value.copy_(naiveModel.state_dict()[name]);
 
-        IBatchSampler naive = new RandomBatchSampler(BatchSize, 7), bucketed = new BucketBatchSampler(BatchSize, 7);
+        IBatchPlan naive = new ShuffledBatches(BatchSize, 7), bucketed = new LengthBuckets(BatchSize, 7);
         // Warm-up: first calls pay for native allocation and kernel selection.
         Epoch(naiveModel, set, naive, 0, maxBatches: 5);
         Epoch(bucketedModel, set, bucketed, 0, maxBatches: 5);
@@ -64,12 +64,12 @@ public sealed class EpochSpeedupMeasure : IMeasure
             $"random padded {naiveSeconds / Rounds:F1} s/epoch vs bucketed packed {bucketedSeconds / Rounds:F1} s/epoch");
     }
 
-    static double Epoch(SequenceClassifier model, EncodedSet set, IBatchSampler sampler, int epoch, int maxBatches = int.MaxValue)
+    static double Epoch(SequenceClassifier model, EncodedSet set, IBatchPlan plan, int epoch, int maxBatches = int.MaxValue)
     {
         model.train();
         using var optimizer = optim.Adam(model.parameters(), 1e-3);
         var clock = Stopwatch.StartNew();
-        foreach (var rows in sampler.Batches(set, epoch).Take(maxBatches))
+        foreach (var rows in plan.Batches(set, epoch).Take(maxBatches))
         {
             using var scope = torch.NewDisposeScope();
             using var batch = BatchBuilder.Build(set, rows);

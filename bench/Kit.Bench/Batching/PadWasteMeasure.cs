@@ -16,8 +16,8 @@ public sealed class PadWasteMeasure : IMeasure
         double naive = 0, bucketed = 0;
         for (int epoch = 0; epoch < Epochs; epoch++)
         {
-            naive += PadWaste.Measure(set, new RandomBatchSampler(BatchSize, 1), epoch) / Epochs;
-            bucketed += PadWaste.Measure(set, new BucketBatchSampler(BatchSize, 1), epoch) / Epochs;
+            naive += PadWaste.Measure(set, new ShuffledBatches(BatchSize, 1), epoch) / Epochs;
+            bucketed += PadWaste.Measure(set, new LengthBuckets(BatchSize, 1), epoch) / Epochs;
         }
         string how = $"demo hostnames ({set.Count} rows, characters), batch size {BatchSize}, each batch padded to its longest row; " +
                      $"pad positions / all positions, mean of {Epochs} epochs";

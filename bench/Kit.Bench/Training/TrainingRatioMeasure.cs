@@ -30,7 +30,7 @@ public sealed class TrainingRatioMeasure : IMeasure
         var inferSet = TrainingBenchData.Make(InferBatch * 4, Length, Seed + 1);
         var config = new ClassifierConfig(TrainingBenchData.Vocabulary, TrainingBenchData.Classes, CellKind.Gru, Embed, Hidden);
         var options = new TrainingOptions { Epochs = 1, BatchSize = TrainBatch, Bucketed = false, Seed = Seed, LearningRate = 1e-3 };
-        var batches = new RandomBatchSampler(TrainBatch, Seed).Batches(trainSet, 1).ToList();
+        var batches = new ShuffledBatches(TrainBatch, Seed).Batches(trainSet, 1).ToList();
 
         // Warm-up both paths once (first calls load kernels and allocate pools).
         KitTrain(config, trainSet, options);

@@ -42,7 +42,8 @@ internal static class TrainCommand
         Console.Error.WriteLine(Kit.Native.Engine.EnsureLoaded());
         string checkpoint = Trainer.CheckpointPath(spec.Training.CheckpointDirectory!);
         if (spec.Training.Resume)
-            Console.Error.WriteLine(File.Exists(checkpoint) ? $"resuming from {checkpoint}" : $"--resume: no checkpoint at {checkpoint}; starting from epoch 1");
+            Console.Error.WriteLine(Trainer.ResumeCheckpoint(spec.Training.CheckpointDirectory!) is string found
+                ? $"resuming from {found}" : $"--resume: no checkpoint at {checkpoint}; starting from epoch 1");
         using var cancel = new CancellationTokenSource();
         ConsoleCancelEventHandler onCancel = (_, e) =>
         {

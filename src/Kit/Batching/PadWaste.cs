@@ -5,10 +5,10 @@ namespace Kit.Batching;
 /// <summary>Pad positions over all positions of one epoch's batches, each padded to its own longest row.</summary>
 public static class PadWaste
 {
-    public static double Measure(EncodedSet set, IBatchSampler sampler, int epoch = 0)
+    public static double Measure(EncodedSet set, IBatchPlan plan, int epoch = 0)
     {
         long pads = 0, positions = 0;
-        foreach (var batch in sampler.Batches(set, epoch))
+        foreach (var batch in plan.Batches(set, epoch))
         {
             int longest = 0;
             long real = 0;

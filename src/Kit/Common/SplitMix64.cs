@@ -2,7 +2,7 @@ namespace Kit.Common;
 
 /// <summary>
 /// SplitMix64 (Steele, Lea and Flood 2014), the one seeded generator of the kit. Every seeded step (splits,
-/// samplers, bootstraps, t-SNE initialisation) uses it rather than System.Random, so results depend only on the
+/// batch plans, bootstraps, t-SNE initialisation) uses it rather than System.Random, so results depend only on the
 /// seed and never on the runtime's choice of algorithm.
 /// </summary>
 public sealed class SplitMix64(ulong seed)

@@ -99,8 +99,8 @@ public sealed class PreparedData
             // The validation share of each fold's training part matches the holdout's train : validation ratio.
             double validation = options.ValidationFraction / (options.TrainFraction + options.ValidationFraction);
             splits = groups is not null
-                ? Splitter.GroupKFold(y, groups, k, options.SplitSeed, validation, lengths)
-                : Splitter.StratifiedKFold(y, k, options.SplitSeed, validation, lengths);
+                ? Splitter.FoldsByGroup(y, groups, k, options.SplitSeed, validation, lengths)
+                : Splitter.FoldsByClass(y, k, options.SplitSeed, validation, lengths);
             description = FormattableString.Invariant($"{(groups is not null ? "group" : "stratified")} {k}-fold, validation {validation:0.###} of each training part, seed {options.SplitSeed}");
         }
         else

@@ -21,7 +21,7 @@ public static class Splitter
     /// Fold i's Test is fold i; its Train is the other folds, minus a stratified Validation share when
     /// <paramref name="validation"/> &gt; 0 (carved from those folds, never from the test fold).
     /// </summary>
-    public static IReadOnlyList<Split> StratifiedKFold(int[] labels, int k, ulong seed, double validation = 0, int[]? lengths = null)
+    public static IReadOnlyList<Split> FoldsByClass(int[] labels, int k, ulong seed, double validation = 0, int[]? lengths = null)
     {
         CheckK(k, labels.Length);
         var fold = Stratified(labels, Enumerable.Repeat(1.0 / k, k).ToArray(), seed);
@@ -37,7 +37,7 @@ public static class Splitter
     }
 
     /// <summary>k folds of whole groups, as stratified as the groups allow; Validation (when asked for) is carved by group from the training folds.</summary>
-    public static IReadOnlyList<Split> GroupKFold(int[] labels, string[] groups, int k, ulong seed, double validation = 0, int[]? lengths = null)
+    public static IReadOnlyList<Split> FoldsByGroup(int[] labels, string[] groups, int k, ulong seed, double validation = 0, int[]? lengths = null)
     {
         CheckK(k, labels.Length);
         var fold = GroupAssigner.Assign(labels, groups, Enumerable.Repeat(1.0 / k, k).ToArray(), seed);

@@ -1,4 +1,4 @@
 namespace Kit.Diagnostics;
 
-/// <summary>One class's one-vs-rest scores. Support is the number of examples whose true class this is.</summary>
-public sealed record ClassScores(string Class, double Precision, double Recall, double F1, int Support, int Predicted);
+/// <summary>One class's one-vs-rest scores. TrueRows counts the examples whose true class this is; PredictedRows those predicted as it.</summary>
+public sealed record ClassScores(string Class, double Precision, double Recall, double F1, int TrueRows, int PredictedRows);

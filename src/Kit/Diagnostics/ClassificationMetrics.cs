@@ -7,7 +7,7 @@ namespace Kit.Diagnostics;
 /// the lowest index). Precision of a class never predicted, and F1 where precision and recall are both zero, are
 /// 0, as scikit-learn does with zero_division=0. Macro and weighted averages run over the classes that occur as
 /// a true or a predicted label, so a class absent from this split does not drag the average to zero; balanced
-/// accuracy averages recall over classes with support.
+/// accuracy averages recall over classes with at least one true row.
 /// </summary>
 public sealed record ClassificationMetrics
 {
@@ -31,11 +31,11 @@ public sealed record ClassificationMetrics
     /// <summary>Mean natural-log loss of the true class.</summary>
     public required double LogLoss { get; init; }
     /// <summary>1 − LogLoss / (log loss of always predicting the label frequencies of this set).</summary>
-    public required double LogLossReduction { get; init; }
+    public required double LogLossGainOverPrior { get; init; }
     /// <summary>Multiclass Brier score (Brier 1950): mean over examples of Σ_k (p_k − 1[y = k])², in [0, 2].</summary>
     public required double Brier { get; init; }
-    /// <summary>Share of examples whose true class is among the k most probable, for k = 1..classes.</summary>
-    public required IReadOnlyDictionary<int, double> TopKAccuracy { get; init; }
+    /// <summary>Share of examples whose true class is among the k most probable, keyed by k = 1..classes.</summary>
+    public required IReadOnlyDictionary<int, double> WithinTop { get; init; }
     public required IReadOnlyList<ClassScores> PerClass { get; init; }
     /// <summary>Counts; row = true class, column = predicted class.</summary>
     public required int[,] Confusion { get; init; }
@@ -43,10 +43,11 @@ public sealed record ClassificationMetrics
     public required double[,] ConfusionNormalised { get; init; }
     public required int[] Predicted { get; init; }
 
-    public double TopK(int k)
+    /// <summary>Share of examples whose true class is among the <paramref name="k"/> most probable.</summary>
+    public double AccuracyWithinTop(int k)
     {
-        if (!TopKAccuracy.TryGetValue(k, out double v))
-            throw new ArgumentOutOfRangeException(nameof(k), $"k = {k}; top-k accuracy exists for k = 1..{ClassNames.Count}.");
+        if (!WithinTop.TryGetValue(k, out double v))
+            throw new ArgumentOutOfRangeException(nameof(k), $"k = {k}; accuracy within the top k exists for k = 1..{ClassNames.Count}.");
         return v;
     }
 
@@ -87,13 +88,13 @@ public sealed record ClassificationMetrics
         int cumulative = 0;
         for (int r = 1; r <= k; r++) { cumulative += topHits[r]; topK[r] = (double)cumulative / n; }
 
-        var support = new int[k];
+        var trueRows = new int[k];
         var predictedCount = new int[k];
         int correct = 0;
         for (int t = 0; t < k; t++)
             for (int q = 0; q < k; q++)
             {
-                support[t] += confusion[t, q];
+                trueRows[t] += confusion[t, q];
                 predictedCount[q] += confusion[t, q];
                 if (t == q) correct += confusion[t, q];
             }
@@ -101,21 +102,21 @@ public sealed record ClassificationMetrics
         var perClass = new ClassScores[k];
         var normalised = new double[k, k];
         double macroP = 0, macroR = 0, macroF = 0, weightedP = 0, weightedR = 0, weightedF = 0, recallSum = 0, priorLoss = 0;
-        int present = 0, withSupport = 0;
+        int present = 0, withTrueRows = 0;
         for (int c = 0; c < k; c++)
         {
             int tp = confusion[c, c];
             double precision = predictedCount[c] == 0 ? 0 : (double)tp / predictedCount[c];
-            double recall = support[c] == 0 ? 0 : (double)tp / support[c];
+            double recall = trueRows[c] == 0 ? 0 : (double)tp / trueRows[c];
             double f1 = precision + recall == 0 ? 0 : 2 * precision * recall / (precision + recall);
-            perClass[c] = new ClassScores(classNames[c], precision, recall, f1, support[c], predictedCount[c]);
-            for (int q = 0; q < k; q++) normalised[c, q] = support[c] == 0 ? 0 : (double)confusion[c, q] / support[c];
-            if (support[c] > 0 || predictedCount[c] > 0) { present++; macroP += precision; macroR += recall; macroF += f1; }
-            if (support[c] > 0)
+            perClass[c] = new ClassScores(classNames[c], precision, recall, f1, trueRows[c], predictedCount[c]);
+            for (int q = 0; q < k; q++) normalised[c, q] = trueRows[c] == 0 ? 0 : (double)confusion[c, q] / trueRows[c];
+            if (trueRows[c] > 0 || predictedCount[c] > 0) { present++; macroP += precision; macroR += recall; macroF += f1; }
+            if (trueRows[c] > 0)
             {
-                withSupport++;
+                withTrueRows++;
                 recallSum += recall;
-                double share = (double)support[c] / n;
+                double share = (double)trueRows[c] / n;
                 weightedP += share * precision; weightedR += share * recall; weightedF += share * f1;
                 priorLoss -= share * Math.Log(share);
             }
@@ -126,7 +127,7 @@ public sealed record ClassificationMetrics
             ClassNames = classNames.ToArray(),
             Count = n,
             Accuracy = accuracy,
-            BalancedAccuracy = recallSum / withSupport,
+            BalancedAccuracy = recallSum / withTrueRows,
             // Single-label multiclass: every mistake is one false positive and one false negative, so the
             // micro averages all equal accuracy.
             MicroPrecision = accuracy,
@@ -139,9 +140,9 @@ public sealed record ClassificationMetrics
             WeightedRecall = weightedR,
             WeightedF1 = weightedF,
             LogLoss = logLoss,
-            LogLossReduction = priorLoss == 0 ? double.NaN : 1 - logLoss / priorLoss,
+            LogLossGainOverPrior = priorLoss == 0 ? double.NaN : 1 - logLoss / priorLoss,
             Brier = brier,
-            TopKAccuracy = topK,
+            WithinTop = topK,
             PerClass = perClass,
             Confusion = confusion,
             ConfusionNormalised = normalised,
@@ -149,14 +150,14 @@ public sealed record ClassificationMetrics
         };
     }
 
-    /// <summary>Per-class table (Class, Precision, Recall, F1, Support, Predicted).</summary>
+    /// <summary>Per-class table (Class, Precision, Recall, F1, TrueRows, PredictedRows).</summary>
     public DataFrame ToDataFrame() => new(
         FrameColumns.Text("Class", PerClass.Select(c => c.Class)),
         FrameColumns.Number("Precision", PerClass.Select(c => c.Precision)),
         FrameColumns.Number("Recall", PerClass.Select(c => c.Recall)),
         FrameColumns.Number("F1", PerClass.Select(c => c.F1)),
-        FrameColumns.Count("Support", PerClass.Select(c => c.Support)),
-        FrameColumns.Count("Predicted", PerClass.Select(c => c.Predicted)));
+        FrameColumns.Count("TrueRows", PerClass.Select(c => c.TrueRows)),
+        FrameColumns.Count("PredictedRows", PerClass.Select(c => c.PredictedRows)));
 
     /// <summary>Headline figures as Metric/Value rows.</summary>
     public DataFrame SummaryToDataFrame()
@@ -167,9 +168,9 @@ public sealed record ClassificationMetrics
             ("MicroPrecision", MicroPrecision), ("MicroRecall", MicroRecall), ("MicroF1", MicroF1),
             ("MacroPrecision", MacroPrecision), ("MacroRecall", MacroRecall), ("MacroF1", MacroF1),
             ("WeightedPrecision", WeightedPrecision), ("WeightedRecall", WeightedRecall), ("WeightedF1", WeightedF1),
-            ("LogLoss", LogLoss), ("LogLossReduction", LogLossReduction), ("Brier", Brier),
+            ("LogLoss", LogLoss), ("LogLossGainOverPrior", LogLossGainOverPrior), ("Brier", Brier),
         };
-        rows.AddRange(TopKAccuracy.Select(kv => ($"Top{kv.Key}Accuracy", kv.Value)));
+        rows.AddRange(WithinTop.Select(kv => ($"AccuracyWithinTop{kv.Key}", kv.Value)));
         return new DataFrame(FrameColumns.Text("Metric", rows.Select(r => r.Item1)), FrameColumns.Number("Value", rows.Select(r => r.Item2)));
     }
 

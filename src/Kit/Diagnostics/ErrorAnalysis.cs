@@ -3,12 +3,12 @@ using Microsoft.Data.Analysis;
 namespace Kit.Diagnostics;
 
 /// <summary>
-/// Examples to read by hand: the mistakes the model was surest of, the examples with the highest loss (right
-/// or wrong), and the most frequent confusions with their most confident instances. Ties are broken by
-/// example index so the lists repeat exactly.
+/// Rows to read by hand: the mistakes the model was surest of, the costliest rows by loss (right or wrong), and
+/// the class pairs mixed up most often with their most confident instances. Ties are broken by example index so
+/// the lists repeat exactly.
 /// </summary>
-public sealed record ErrorAnalysis(IReadOnlyList<ErrorExample> ConfidentMistakes, IReadOnlyList<ErrorExample> HighestLoss,
-    IReadOnlyList<ConfusedPair> ConfusedPairs, int Mistakes, int Count)
+public sealed record ErrorAnalysis(IReadOnlyList<ErrorExample> SureMistakes, IReadOnlyList<ErrorExample> CostliestRows,
+    IReadOnlyList<MixedUpPair> MixedUpPairs, int Mistakes, int Count)
 {
     public static ErrorAnalysis Compute(int[] labels, double[][] probabilities, string[] texts, IReadOnlyList<string> classNames, int top = 20,
         int examplesPerPair = 5)
@@ -42,24 +42,24 @@ public sealed record ErrorAnalysis(IReadOnlyList<ErrorExample> ConfidentMistakes
             .GroupBy(e => (True: labels[e.Index], Predicted: predictedOf[e.Index]))
             .OrderByDescending(g => g.Count()).ThenBy(g => g.Key.True).ThenBy(g => g.Key.Predicted)
             .Take(top)
-            .Select(g => new ConfusedPair(classNames[g.Key.True], classNames[g.Key.Predicted], g.Count(), (double)g.Count() / support[g.Key.True],
+            .Select(g => new MixedUpPair(classNames[g.Key.True], classNames[g.Key.Predicted], g.Count(), (double)g.Count() / support[g.Key.True],
                 g.Take(examplesPerPair).ToArray()))   // a group keeps the confidence order of `mistakes`
             .ToArray();
         return new ErrorAnalysis(mistakes.Take(top).ToArray(), highestLoss, pairs, mistakes.Length, labels.Length);
     }
 
-    /// <summary>The confident mistakes as a table.</summary>
-    public DataFrame ToDataFrame() => ExamplesFrame(ConfidentMistakes);
+    /// <summary>The sure mistakes as a table.</summary>
+    public DataFrame ToDataFrame() => ExamplesFrame(SureMistakes);
 
-    public DataFrame HighestLossToDataFrame() => ExamplesFrame(HighestLoss);
+    public DataFrame CostliestRowsToDataFrame() => ExamplesFrame(CostliestRows);
 
     /// <summary>TrueClass, PredictedClass, Count, ShareOfTrueClass, Examples (texts joined by " | ").</summary>
-    public DataFrame ConfusedPairsToDataFrame() => new(
-        FrameColumns.Text("TrueClass", ConfusedPairs.Select(p => p.TrueClass)),
-        FrameColumns.Text("PredictedClass", ConfusedPairs.Select(p => p.PredictedClass)),
-        FrameColumns.Count("Count", ConfusedPairs.Select(p => p.Count)),
-        FrameColumns.Number("ShareOfTrueClass", ConfusedPairs.Select(p => p.ShareOfTrueClass)),
-        FrameColumns.Text("Examples", ConfusedPairs.Select(p => string.Join(" | ", p.Examples.Select(e => e.Text)))));
+    public DataFrame MixedUpPairsToDataFrame() => new(
+        FrameColumns.Text("TrueClass", MixedUpPairs.Select(p => p.TrueClass)),
+        FrameColumns.Text("PredictedClass", MixedUpPairs.Select(p => p.PredictedClass)),
+        FrameColumns.Count("Count", MixedUpPairs.Select(p => p.Count)),
+        FrameColumns.Number("ShareOfTrueClass", MixedUpPairs.Select(p => p.ShareOfTrueClass)),
+        FrameColumns.Text("Examples", MixedUpPairs.Select(p => string.Join(" | ", p.Examples.Select(e => e.Text)))));
 
     static DataFrame ExamplesFrame(IReadOnlyList<ErrorExample> rows) => new(
         FrameColumns.Count("Index", rows.Select(r => r.Index)),

@@ -5,10 +5,10 @@ namespace Kit.Diagnostics;
 /// <summary>
 /// A 2-D picture of vectors: token embeddings (one point per vocabulary entry) or pooled sequence
 /// representations (one point per example, with its true label and whether the model got it right).
-/// For PCA, ExplainedVarianceRatio holds the two axes' shares; for t-SNE it is empty, since its axes have no
+/// For PCA, VarianceShare holds the two axes' shares; for t-SNE it is empty, since its axes have no
 /// meaning of their own.
 /// </summary>
-public sealed record Projection(ProjectionMethod Method, IReadOnlyList<ProjectionPoint> Points, IReadOnlyList<double> ExplainedVarianceRatio)
+public sealed record Projection(ProjectionMethod Method, IReadOnlyList<ProjectionPoint> Points, IReadOnlyList<double> VarianceShare)
 {
     /// <summary>Projects an embedding matrix whose row t belongs to token <paramref name="tokens"/>[t].</summary>
     public static Projection OfTokens(double[][] embedding, IReadOnlyList<string> tokens, ProjectionMethod method, TsneOptions? tsne = null,
@@ -51,8 +51,8 @@ public sealed record Projection(ProjectionMethod Method, IReadOnlyList<Projectio
         {
             case ProjectionMethod.Pca:
                 if (x[0].Length < 2) throw new ArgumentException($"vectors have {x[0].Length} dimension; a 2-D PCA needs at least two.");
-                var pca = Pca.Fit(x, 2);
-                return (pca.Transform(x), pca.ExplainedVarianceRatio);
+                var pca = Pca.Of(x, 2);
+                return (pca.Project(x), pca.VarianceShare);
             case ProjectionMethod.Tsne:
                 // Without explicit options a small vocabulary (a few dozen characters) would fail the default
                 // perplexity of 30, so the default shrinks to what the point count allows; explicit options are

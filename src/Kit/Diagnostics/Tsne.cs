@@ -39,7 +39,7 @@ public static class Tsne
         var y = new double[2 * n];
         if (options.Initialisation == TsneInitialisation.Pca && x[0].Length >= 2)
         {
-            var coords = Pca.Fit(x, 2).Transform(x);
+            var coords = Pca.Of(x, 2).Project(x);
             double sd = Math.Sqrt(coords.Sum(c => c[0] * c[0]) / n);
             double scale = sd > 0 ? 1e-4 / sd : 1;
             for (int i = 0; i < n; i++) { y[2 * i] = coords[i][0] * scale; y[2 * i + 1] = coords[i][1] * scale; }

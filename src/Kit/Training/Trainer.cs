@@ -36,11 +36,11 @@ public static class Trainer
         if (train.Count == 0) throw new ArgumentException("the training set is empty");
         if (validation is { Count: 0 }) validation = null;
 
-        IBatchSampler sampler = options.Bucketed
-            ? new BucketBatchSampler(options.BatchSize, options.Seed)
-            : new RandomBatchSampler(options.BatchSize, options.Seed);
+        IBatchPlan plan = options.Bucketed
+            ? new LengthBuckets(options.BatchSize, options.Seed)
+            : new ShuffledBatches(options.BatchSize, options.Seed);
         long totalSteps = 0;
-        for (int e = 1; e <= options.Epochs; e++) totalSteps += sampler.Batches(train, e).Count();
+        for (int e = 1; e <= options.Epochs; e++) totalSteps += plan.Batches(train, e).Count();
 
         var named = model.named_parameters().Select(p => (p.name, (Tensor)p.parameter)).ToArray();
         var parameters = named.Select(p => p.Item2).ToArray();
@@ -57,14 +57,16 @@ public static class Trainer
         Dictionary<string, Tensor>? bestWeights = null;
         string fingerprint = RunFingerprint.Of(model.Config, options, train, validation);
         string? checkpointPath = options.CheckpointDirectory is null ? null : TrainingCheckpoint.PathIn(options.CheckpointDirectory);
+        // Possibly under the former file name; the next save writes the current name and removes the former file.
+        string? resumeFrom = options.Resume && options.CheckpointDirectory is not null ? TrainingCheckpoint.FindIn(options.CheckpointDirectory) : null;
         bool finished = false;
 
-        if (options.Resume && checkpointPath is not null && File.Exists(checkpointPath))
+        if (resumeFrom is not null)
         {
-            using var ck = TrainingCheckpoint.Load(checkpointPath);
+            using var ck = TrainingCheckpoint.Load(resumeFrom);
             if (ck.State.Fingerprint != fingerprint)
-                throw new BundleError(checkpointPath, "the checkpoint belongs to a different run (model config, training options or data differ); delete it or train without resuming");
-            TensorArchive.LoadInto(model, ck.Weights, checkpointPath);
+                throw new BundleError(resumeFrom, "the checkpoint belongs to a different run (model config, training options or data differ); delete it or train without resuming");
+            TensorArchive.LoadInto(model, ck.Weights, resumeFrom);
             optimizer.LoadState(ck.State.OptimizerSteps, ck.OptimizerState);
             schedule.Load(ck.State.Schedule);
             bestWeights = ck.BestWeights is null ? null : Clone(ck.BestWeights);
@@ -87,7 +89,7 @@ public static class Trainer
             var epochClock = Stopwatch.StartNew();
             torch.manual_seed(EpochSeed(options.Seed, epoch));
             model.train();
-            var batches = sampler.Batches(train, epoch).ToList();
+            var batches = plan.Batches(train, epoch).ToList();
             double lossSum = 0, normSum = 0, rate = double.NaN;
             long seen = 0;
             int clipped = 0;
@@ -177,6 +179,7 @@ public static class Trainer
                     OptimizerState = Clone(optimizer.StateTensors),
                 };
                 ck.Save(checkpointPath);
+                if (resumeFrom is not null && resumeFrom != checkpointPath) File.Delete(resumeFrom);
             }
         }
 
@@ -191,6 +194,9 @@ public static class Trainer
 
     /// <summary>Where <see cref="Fit"/> keeps the per-epoch checkpoint inside a checkpoint directory.</summary>
     public static string CheckpointPath(string checkpointDirectory) => TrainingCheckpoint.PathIn(checkpointDirectory);
+
+    /// <summary>The checkpoint a resume would continue from (current or former file name), or null when there is none.</summary>
+    public static string? ResumeCheckpoint(string checkpointDirectory) => TrainingCheckpoint.FindIn(checkpointDirectory);
 
     /// <summary>Mean cross-entropy and accuracy over a set, in evaluation mode, without gradients.</summary>
     public static (double Loss, double Accuracy) Evaluate(SequenceClassifier model, EncodedSet set, int batchSize = 256)
@@ -208,7 +214,7 @@ public static class Trainer
         double lossSum = 0;
         long correct = 0;
         long[] tp = new long[classes], predicted = new long[classes], actual = new long[classes];
-        foreach (var rows in new SequentialBatchSampler(batchSize).Batches(set, 0))
+        foreach (var rows in new InOrderBatches(batchSize).Batches(set, 0))
         {
             using var scope = torch.NewDisposeScope();
             using var batch = BatchBuilder.Build(set, rows);

@@ -10,12 +10,17 @@ namespace Kit.Training;
 /// Everything a run needs to continue after its last finished epoch: current and best weights, optimiser moments
 /// and step count, schedule and early-stopping state, the history so far, and a fingerprint of the model config,
 /// training options and data so a checkpoint is never resumed into a different run. The random state needs no
-/// saving: every epoch reseeds the engine and the batch sampler from (seed, epoch).
+/// saving: every epoch reseeds the engine and the batch plan from (seed, epoch).
 /// </summary>
 internal sealed class TrainingCheckpoint : IDisposable
 {
     public const string Magic = "KITCHKPT";
-    public const string FileName = "last.kitckpt";
+    public const string FileName = "resume-state.kit";
+    /// <summary>
+    /// The name checkpoints had before version 0.2. Still read (never written) for this one release so an
+    /// interrupted run started with the old name can be resumed; drop it in the release after.
+    /// </summary>
+    internal const string FormerFileName = "last.kitckpt";
     const string What = "kit training checkpoint";
 
     internal required CheckpointState State { get; init; }
@@ -32,7 +37,18 @@ internal sealed class TrainingCheckpoint : IDisposable
         Converters = { new System.Text.Json.Serialization.JsonStringEnumConverter() },
     };
 
+    /// <summary>Where a run writes its checkpoint inside <paramref name="directory"/>.</summary>
     public static string PathIn(string directory) => System.IO.Path.Combine(directory, FileName);
+
+    /// <summary>
+    /// The checkpoint a resume should read: the current name, else the former one (see <see cref="FormerFileName"/>),
+    /// else null.
+    /// </summary>
+    public static string? FindIn(string directory)
+    {
+        string current = PathIn(directory), former = System.IO.Path.Combine(directory, FormerFileName);
+        return File.Exists(current) ? current : File.Exists(former) ? former : null;
+    }
 
     internal byte[] ToBytes()
     {

@@ -34,10 +34,10 @@ public static class Figure
     public static JsonObject Line(string colour, double width = 2, string dash = "solid") =>
         new() { ["color"] = colour, ["width"] = width, ["dash"] = dash };
 
-    /// <summary>The y = x line of perfect calibration on [0, 1], drawn on the given axes.</summary>
+    /// <summary>The y = x line (confidence equals accuracy) on [0, 1], drawn on the given axes.</summary>
     public static JsonObject Diagonal(string xaxis = "x", string yaxis = "y", bool showLegend = true) => new()
     {
-        ["type"] = "scatter", ["mode"] = "lines", ["name"] = "perfect calibration", ["x"] = Pair(0, 1), ["y"] = Pair(0, 1),
+        ["type"] = "scatter", ["mode"] = "lines", ["name"] = "confidence = accuracy", ["x"] = Pair(0, 1), ["y"] = Pair(0, 1),
         ["xaxis"] = xaxis, ["yaxis"] = yaxis, ["hoverinfo"] = "skip", ["showlegend"] = showLegend,
         ["line"] = Line(Theme.Muted, 1, "dash"),
     };

@@ -27,7 +27,7 @@ public static class LengthViews
             {
                 ["type"] = "scatter", ["mode"] = "lines", ["name"] = "95 % Wilson interval", ["x"] = bins.DeepClone(),
                 ["y"] = Figure.Numbers(b.Rows.Select(r => r.Count == 0 ? double.NaN : r.WilsonLow)), ["fill"] = "tonexty",
-                ["fillcolor"] = "rgba(46,94,140,0.18)", ["line"] = new JsonObject { ["width"] = 0, ["color"] = Theme.Colour(0) },
+                ["fillcolor"] = Theme.Tint(0, 0.18), ["line"] = new JsonObject { ["width"] = 0, ["color"] = Theme.Colour(0) },
                 ["hoverinfo"] = "skip", ["legendgroup"] = "band", ["yaxis"] = "y2",
             },
             new JsonObject

@@ -6,28 +6,45 @@ namespace Kit.Views;
 /// <summary>Headline metrics, the per-class table and the confusion matrix heat maps.</summary>
 public static class MetricsViews
 {
-    public static TextView Summary(ClassificationMetrics m, string split = "test")
+    public static TextView Summary(ClassificationMetrics m, string split = "test") => Summary(m, null, split);
+
+    /// <summary>As above, with 95 % intervals beside accuracy and macro F1 when <paramref name="intervals"/> is given.</summary>
+    public static TextView Summary(ClassificationMetrics m, HeadlineIntervals? intervals, string split = "test")
     {
+        string accuracyInterval = "", macroInterval = "";
+        if (intervals is not null)
+        {
+            accuracyInterval = $"{Html.Pct(intervals.AccuracyLow)} – {Html.Pct(intervals.AccuracyHigh)}";
+            macroInterval = $"{Html.Num(intervals.MacroF1Low)} – {Html.Num(intervals.MacroF1High)}";
+        }
         var rows = new List<string[]>
         {
-            new[] { "accuracy", Html.Pct(m.Accuracy) },
-            new[] { "balanced accuracy", Html.Pct(m.BalancedAccuracy) },
-            new[] { "macro F1", Html.Num(m.MacroF1) },
-            new[] { "weighted F1", Html.Num(m.WeightedF1) },
-            new[] { "log loss (nats)", Html.Num(m.LogLoss) },
-            new[] { "Brier score", Html.Num(m.Brier) },
+            new[] { "accuracy", Html.Pct(m.Accuracy), accuracyInterval },
+            new[] { "balanced accuracy", Html.Pct(m.BalancedAccuracy), "" },
+            new[] { "macro F1", Html.Num(m.MacroF1), macroInterval },
+            new[] { "weighted F1", Html.Num(m.WeightedF1), "" },
+            new[] { "log loss (nats)", Html.Num(m.LogLoss), "" },
+            new[] { "Brier score", Html.Num(m.Brier), "" },
         };
-        string headline = Html.Table(new[] { "metric", split }, rows, $"Headline metrics on the {split} split");
-        string perClass = Html.Table(new[] { "class", "precision", "recall", "F1", "support" },
-            m.PerClass.Select(c => (IReadOnlyList<string>)new[] { c.Class, Html.Num(c.Precision), Html.Num(c.Recall), Html.Num(c.F1), c.Support.ToString() }),
+        var header = new List<string> { "metric", split, "95 % interval" };
+        string caption = $"Headline metrics on the {split} split";
+        if (intervals is null)
+        {
+            header.RemoveAt(2);
+            rows = rows.Select(r => r[..2]).ToList();
+        }
+        else caption += $"; intervals: Wilson for accuracy, bootstrap of {intervals.Replicates} resamples for macro F1 (the test sample's uncertainty, not the spread between seeds)";
+        string headline = Html.Table(header, rows, caption);
+        string perClass = Html.Table(new[] { "class", "precision", "recall", "F1", "true rows", "predicted rows" },
+            m.PerClass.Select(c => (IReadOnlyList<string>)new[] { c.Class, Html.Num(c.Precision), Html.Num(c.Recall), Html.Num(c.F1), c.TrueRows.ToString(), c.PredictedRows.ToString() }),
             "Per class", textColumns: new[] { 0 });
         return new TextView($"Metrics ({split} split)", headline + perClass);
     }
 
-    /// <summary>Precision, recall and F1 side by side per class, support in the tick label.</summary>
+    /// <summary>Precision, recall and F1 side by side per class, the class's true rows in the tick label.</summary>
     public static ChartView PerClass(ClassificationMetrics m, string split = "test")
     {
-        var ticks = Figure.Texts(m.PerClass.Select(c => $"{c.Class} (n={c.Support})"));
+        var ticks = Figure.Texts(m.PerClass.Select(c => $"{c.Class} (n={c.TrueRows})"));
         var traces = new JsonArray();
         var series = new (string Name, Func<ClassScores, double> Get)[] { ("precision", c => c.Precision), ("recall", c => c.Recall), ("F1", c => c.F1) };
         for (int i = 0; i < series.Length; i++)
@@ -40,7 +57,7 @@ public static class MetricsViews
                 ["hovertemplate"] = $"%{{x}}<br>{name} %{{y:.3f}}<extra></extra>",
             });
         }
-        var weakest = m.PerClass.Where(c => c.Support > 0).OrderBy(c => c.F1).FirstOrDefault();
+        var weakest = m.PerClass.Where(c => c.TrueRows > 0).OrderBy(c => c.F1).FirstOrDefault();
         string title = weakest is null ? $"Per-class scores ({split} split)"
             : $"Per-class scores ({split} split) — weakest class by F1: {weakest.Class} ({Html.Num(weakest.F1)})";
         var layout = Theme.Layout(title, "class (test rows in brackets)", "score (0 to 1)", height: 420);

@@ -25,8 +25,8 @@ public static class ProjectionViews
         layout["showlegend"] = false;
         return new ChartView($"Projection of {what}", new JsonArray(trace), layout)
         {
-            Caption = p.Method == ProjectionMethod.Pca && p.ExplainedVarianceRatio.Count >= 2
-                ? $"The two axes keep {Html.Pct(p.ExplainedVarianceRatio[0] + p.ExplainedVarianceRatio[1])} of the variance; what is far apart here is far apart in the embedding, not necessarily the reverse."
+            Caption = p.Method == ProjectionMethod.Pca && p.VarianceShare.Count >= 2
+                ? $"The two axes keep {Html.Pct(p.VarianceShare[0] + p.VarianceShare[1])} of the variance; what is far apart here is far apart in the embedding, not necessarily the reverse."
                 : null,
         };
     }
@@ -83,8 +83,8 @@ public static class ProjectionViews
         };
     }
 
-    static (string X, string Y) AxisTitles(Projection p) => p.Method == ProjectionMethod.Pca && p.ExplainedVarianceRatio.Count >= 2
-        ? ($"PC 1 ({Html.Pct(p.ExplainedVarianceRatio[0])} of variance; embedding units)", $"PC 2 ({Html.Pct(p.ExplainedVarianceRatio[1])} of variance; embedding units)")
+    static (string X, string Y) AxisTitles(Projection p) => p.Method == ProjectionMethod.Pca && p.VarianceShare.Count >= 2
+        ? ($"PC 1 ({Html.Pct(p.VarianceShare[0])} of variance; embedding units)", $"PC 2 ({Html.Pct(p.VarianceShare[1])} of variance; embedding units)")
         : ("t-SNE 1 (arbitrary units)", "t-SNE 2 (arbitrary units)");
 
     static string Method(Projection p) => p.Method == ProjectionMethod.Pca ? "PCA" : "t-SNE";

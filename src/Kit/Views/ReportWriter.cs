@@ -11,7 +11,7 @@ namespace Kit.Views;
 public static class ReportWriter
 {
     public const string Css = """
-        :root { --ink:#1F2933; --muted:#6B7785; --rule:#E4E7EB; --accent:#2E5E8C; }
+        :root { --ink:#1F2933; --muted:#6B7785; --rule:#E4E7EB; --accent:#025849; }
         body { font-family: Inter, Roboto, Helvetica, Arial, sans-serif; color: var(--ink); margin: 0; background: #FBFCFD; }
         main { max-width: 1040px; margin: 0 auto; padding: 24px 32px 48px; background: #FFFFFF; }
         header.kit-head { border-bottom: 3px solid var(--accent); margin-bottom: 16px; padding-bottom: 8px; }

@@ -1,5 +1,6 @@
 using System.Globalization;
 using Kit.Experiments;
+using Kit.Training;
 
 namespace Kit.Views;
 
@@ -74,7 +75,7 @@ public sealed class RunReport
             new("training", "Training", [HistoryViews.Curves(run.History)]),
             new("scores", "Test scores",
             [
-                MetricsViews.Summary(run.TestMetrics), MetricsViews.PerClass(run.TestMetrics),
+                MetricsViews.Summary(run.TestMetrics, d.TestIntervals), MetricsViews.PerClass(run.TestMetrics),
                 MetricsViews.Confusion(run.TestMetrics, normalised: false), MetricsViews.Confusion(run.TestMetrics, normalised: true),
             ]),
             new("length", "Accuracy by length", [LengthViews.Accuracy(d.ByLength), LengthViews.ClassByBin(d.ByLength.ByClass)]),
@@ -115,17 +116,25 @@ public sealed class RunReport
             new[] { "split", $"{run.Data.SplitDescription}: {f.Split.Train.Length}/{f.Split.Validation.Length}/{f.Split.Test.Length} rows" },
             new[] { "tokens", $"{run.Tokenizer.Name}, vocabulary {run.Vocabulary.Count} ids from the training part only (pad = 0, unknown = 1), max length {run.Data.Options.MaxLength}" },
             new[] { "model", $"{s.Cell} embedding {s.EmbeddingSize}, hidden {s.HiddenSize}, layers {s.Layers}{(s.Bidirectional ? ", bidirectional" : "")}, pooling {s.Pooling}; {run.Model.ParameterCount().ToString("N0", inv)} parameters" },
-            new[] { "training", $"{run.History.Epochs.Count} epochs, batch {t.BatchSize}, {OptimizerName(t.Optimizer)} lr {t.LearningRate.ToString(inv)}, schedule {t.Schedule.Kind}, seed {t.Seed}; best epoch {run.History.BestEpoch}{(run.History.StopReason is null ? "" : "; " + run.History.StopReason)}" },
+            new[] { "training", $"{run.History.Epochs.Count} epochs, batch {t.BatchSize}, {Optimiser(t)}, schedule {t.Schedule.Kind}, seed {t.Seed}; best epoch {run.History.BestEpoch}{(run.History.StopReason is null ? "" : "; " + run.History.StopReason)}" },
             new[] { "time", $"{run.Elapsed.TotalSeconds.ToString("F1", inv)} s to train and score, {d.Elapsed.TotalSeconds.ToString("F1", inv)} s for the diagnostics, on {Environment.ProcessorCount} cores" },
         }, numericRight: false);
     }
 
-    static string OptimizerName(Kit.Training.OptimizerKind k) => k switch
+    /// <summary>The optimiser that actually ran, with the settings that matter for it.</summary>
+    internal static string Optimiser(TrainingOptions t)
     {
-        Kit.Training.OptimizerKind.AdamW => "AdamW",
-        Kit.Training.OptimizerKind.Sgd => "SGD",
-        _ => "Adam",
-    };
+        var inv = CultureInfo.InvariantCulture;
+        string name = t.Optimizer switch
+        {
+            OptimizerKind.Adam => "Adam",
+            OptimizerKind.AdamW => "AdamW",
+            OptimizerKind.Sgd => $"SGD (momentum {t.Momentum.ToString(inv)})",
+            _ => t.Optimizer.ToString(),
+        };
+        string decay = t.WeightDecay > 0 ? $", weight decay {t.WeightDecay.ToString(inv)}" : "";
+        return $"{name} lr {t.LearningRate.ToString(inv)}{decay}";
+    }
 
     public override string ToString() => $"{Title}: {string.Join(", ", SectionNames)}";
 }

@@ -28,13 +28,13 @@ public class SplitterTests
     }
 
     [Fact]
-    public void StratifiedKFoldIsWithinOneRowOfExactForEveryClass()
+    public void FoldsByClassIsWithinOneRowOfExactForEveryClass()
     {
         Gen.Select(Labels, Gen.Int[2, 10], Gen.ULong).Sample((labels, k, seed) =>
         {
             if (k > labels.Length) return;
             int classes = labels.Max() + 1;
-            var folds = Splitter.StratifiedKFold(labels, k, seed);
+            var folds = Splitter.FoldsByClass(labels, k, seed);
             Assert.Equal(k, folds.Count);
             AssertPartition(labels.Length, folds.Select(f => f.Test).ToArray());
             var total = Count(labels, Enumerable.Range(0, labels.Length).ToArray(), classes);
@@ -73,7 +73,7 @@ public class SplitterTests
     public void KFoldValidationIsCarvedFromTrainingFoldsOnly()
     {
         var labels = Enumerable.Range(0, 200).Select(i => i % 3).ToArray();
-        foreach (var fold in Splitter.StratifiedKFold(labels, 5, 7, validation: 0.25))
+        foreach (var fold in Splitter.FoldsByClass(labels, 5, 7, validation: 0.25))
         {
             AssertPartition(200, fold.Train, fold.Validation, fold.Test);
             Assert.Equal(40, fold.Test.Length);
@@ -97,7 +97,7 @@ public class SplitterTests
                 Assert.Single(g.Select(x => partOf[x.i]).Distinct());
             Assert.All(split.Summary.Parts, p => Assert.True(p.Rows > 0, $"{p.Part} is empty"));
             if (distinct < k) return;
-            var folds = Splitter.GroupKFold(labels, groups, k, seed);
+            var folds = Splitter.FoldsByGroup(labels, groups, k, seed);
             AssertPartition(labels.Length, folds.Select(f => f.Test).ToArray());
             foreach (var fold in folds)
             {
@@ -188,8 +188,8 @@ public class SplitterTests
     {
         int[] labels = [0, 1, 0, 1];
         Assert.Throws<ArgumentException>(() => Splitter.StratifiedHoldout(labels, 0.5, 0.2, 0.2, 1));
-        Assert.Throws<ArgumentOutOfRangeException>(() => Splitter.StratifiedKFold(labels, 1, 1));
-        Assert.Throws<ArgumentOutOfRangeException>(() => Splitter.StratifiedKFold(labels, 5, 1));
+        Assert.Throws<ArgumentOutOfRangeException>(() => Splitter.FoldsByClass(labels, 1, 1));
+        Assert.Throws<ArgumentOutOfRangeException>(() => Splitter.FoldsByClass(labels, 5, 1));
         Assert.Throws<ArgumentException>(() => Splitter.GroupHoldout(labels, ["a", "a", "b", "b"], 0.5, 0.25, 0.25, 1));
     }
 
@@ -245,7 +245,7 @@ public class GroupStratificationTests
     }
 
     [Fact]
-    public void GroupKFoldIsFarMoreStratifiedThanRandomWholeGroups()
+    public void FoldsByGroupIsFarMoreStratifiedThanRandomWholeGroups()
     {
         // Reference point: assigning whole groups to folds uniformly at random. The greedy assignment should
         // cut the class imbalance across folds by at least half on every one of these inputs.
@@ -268,7 +268,7 @@ public class GroupStratificationTests
             var lab = labels.ToArray();
             var groups = groupIds.Select(g => $"g{g}").ToArray();
             const int k = 5;
-            var folds = Splitter.GroupKFold(lab, groups, k, seed);
+            var folds = Splitter.FoldsByGroup(lab, groups, k, seed);
             var foldOf = new int[lab.Length];
             for (int f = 0; f < k; f++) foreach (int r in folds[f].Test) foldOf[r] = f;
 

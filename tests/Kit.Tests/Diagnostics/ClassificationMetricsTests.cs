@@ -37,10 +37,10 @@ public class ClassificationMetricsTests
         Assert.Equal(theirs.MicroAccuracy, ours.Accuracy, 12);
         Assert.Equal(theirs.MacroAccuracy, ours.BalancedAccuracy, 12);
         Assert.Equal(theirs.LogLoss, ours.LogLoss, 6);
-        Assert.Equal(theirs.LogLossReduction, ours.LogLossReduction, 6);
-        Assert.Equal(theirs.TopKAccuracy, ours.TopK(3), 12);
+        Assert.Equal(theirs.LogLossReduction, ours.LogLossGainOverPrior, 6);
+        Assert.Equal(theirs.TopKAccuracy, ours.AccuracyWithinTop(3), 12);
         Assert.Equal(3, theirs.TopKAccuracyForAllK.Count);   // ML.NET reports k = 1..topKPredictionCount
-        for (int k = 1; k <= 3; k++) Assert.Equal(theirs.TopKAccuracyForAllK[k - 1], ours.TopK(k), 12);
+        for (int k = 1; k <= 3; k++) Assert.Equal(theirs.TopKAccuracyForAllK[k - 1], ours.AccuracyWithinTop(k), 12);
         for (int t = 0; t < K; t++)
             for (int q = 0; q < K; q++)
                 Assert.Equal(theirs.ConfusionMatrix.Counts[t][q], ours.Confusion[t, q]);
@@ -61,7 +61,7 @@ public class ClassificationMetricsTests
         Assert.Equal(2.0 / 3, m.PerClass[2].Recall, 12);
         Assert.Equal(2.0 / 3, m.PerClass[0].F1, 12);
         Assert.Equal(0.8, m.PerClass[2].F1, 12);
-        Assert.Equal([1, 1, 3], m.PerClass.Select(c => c.Support).ToArray());
+        Assert.Equal([1, 1, 3], m.PerClass.Select(c => c.TrueRows).ToArray());
         Assert.Equal(0.6, m.Accuracy, 12);
         Assert.Equal(0.6, m.MicroF1, 12);
         Assert.Equal(0.50, m.MacroPrecision, 2);
@@ -88,9 +88,9 @@ public class ClassificationMetricsTests
         // (0.3² + 0.2² + 0.1²) = 0.14 ; (0.1² + 0.7² + 0.6²) = 0.86 ; mean 0.5
         Assert.Equal(0.5, m.Brier, 12);
         Assert.Equal(-(Math.Log(0.7) + Math.Log(0.3)) / 2, m.LogLoss, 12);
-        Assert.Equal(0.5, m.TopK(1), 12);
-        Assert.Equal(1.0, m.TopK(2), 12);
-        Assert.Throws<ArgumentOutOfRangeException>(() => m.TopK(4));
+        Assert.Equal(0.5, m.AccuracyWithinTop(1), 12);
+        Assert.Equal(1.0, m.AccuracyWithinTop(2), 12);
+        Assert.Throws<ArgumentOutOfRangeException>(() => m.AccuracyWithinTop(4));
     }
 
     [Fact]
@@ -128,11 +128,11 @@ public class ClassificationMetricsTests
         var frame = m.ToDataFrame();
         Assert.Equal(4, frame.Rows.Count);
         Assert.Equal(m.PerClass[2].F1, (double)frame["F1"][2]!);
-        Assert.Equal(labels.Count(y => y == 1), (int)frame["Support"][1]!);
+        Assert.Equal(labels.Count(y => y == 1), (int)frame["TrueRows"][1]!);
         var confusion = m.ConfusionToDataFrame();
         Assert.Equal(m.Confusion[3, 1], (int)confusion["c1"][3]!);
         Assert.Equal(m.ConfusionNormalised[0, 2], (double)m.ConfusionToDataFrame(normalised: true)["c2"][0]!, 12);
         var summary = m.SummaryToDataFrame();
-        Assert.Contains("Top2Accuracy", summary["Metric"].Cast<string>());
+        Assert.Contains("AccuracyWithinTop2", summary["Metric"].Cast<string>());
     }
 }

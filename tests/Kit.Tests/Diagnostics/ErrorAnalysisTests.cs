@@ -24,22 +24,22 @@ public class ErrorAnalysisTests
         var r = ErrorAnalysis.Compute(labels, probs, texts, Names, top: 3);
 
         Assert.Equal(5, r.Mistakes);
-        Assert.Equal([3, 1, 6], r.ConfidentMistakes.Select(e => e.Index).ToArray());
-        Assert.Equal("z", r.ConfidentMistakes[0].PredictedClass);
-        Assert.Equal(0.9, r.ConfidentMistakes[0].Confidence);
+        Assert.Equal([3, 1, 6], r.SureMistakes.Select(e => e.Index).ToArray());
+        Assert.Equal("z", r.SureMistakes[0].PredictedClass);
+        Assert.Equal(0.9, r.SureMistakes[0].Confidence);
         // Loss = −ln p(true): d 0.05, g 0.05 (tie -> lower index first), b 0.1
-        Assert.Equal([3, 6, 1], r.HighestLoss.Select(e => e.Index).ToArray());
-        Assert.Equal(-Math.Log(0.05), r.HighestLoss[0].Loss, 12);
+        Assert.Equal([3, 6, 1], r.CostliestRows.Select(e => e.Index).ToArray());
+        Assert.Equal(-Math.Log(0.05), r.CostliestRows[0].Loss, 12);
 
-        var top = r.ConfusedPairs[0];
+        var top = r.MixedUpPairs[0];
         Assert.Equal(("x", "y", 3), (top.TrueClass, top.PredictedClass, top.Count));
         Assert.Equal(0.75, top.ShareOfTrueClass, 12);
         Assert.Equal(["b", "g", "f"], top.Examples.Select(e => e.Text).ToArray());
-        Assert.Equal(("y", "x"), (r.ConfusedPairs[1].TrueClass, r.ConfusedPairs[1].PredictedClass));
+        Assert.Equal(("y", "x"), (r.MixedUpPairs[1].TrueClass, r.MixedUpPairs[1].PredictedClass));
 
         Assert.Equal(3, r.ToDataFrame().Rows.Count);
-        Assert.Equal("b | g | f", r.ConfusedPairsToDataFrame()["Examples"][0]);
-        Assert.Equal(3, (int)r.HighestLossToDataFrame()["Index"][0]!);
+        Assert.Equal("b | g | f", r.MixedUpPairsToDataFrame()["Examples"][0]);
+        Assert.Equal(3, (int)r.CostliestRowsToDataFrame()["Index"][0]!);
     }
 
     [Fact]

@@ -15,12 +15,12 @@ public class ProjectionTests
         var p = Projection.OfSequences(x, labels, names, ProjectionMethod.Pca, predicted, texts);
 
         Assert.Equal(150, p.Points.Count);
-        Assert.Equal(0.92461872, p.ExplainedVarianceRatio[0], 6);
+        Assert.Equal(0.92461872, p.VarianceShare[0], 6);
         Assert.False(p.Points[0].Correct);
         Assert.True(p.Points[1].Correct);
         Assert.Equal("virginica", p.Points[149].Label);
-        var pca = Pca.Fit(x, 2);
-        Assert.Equal(pca.Transform([x[7]])[0][1], p.Points[7].Y, 12);
+        var pca = Pca.Of(x, 2);
+        Assert.Equal(pca.Project([x[7]])[0][1], p.Points[7].Y, 12);
         var frame = p.ToDataFrame();
         Assert.Equal(150, frame.Rows.Count);
         Assert.Equal("row 3", frame["Text"][3]);
@@ -36,7 +36,7 @@ public class ProjectionTests
         Assert.Equal(x.Length, p.Points.Count);
         Assert.Equal("t5", p.Points[5].Text);
         Assert.Null(p.Points[5].Correct);
-        Assert.Empty(p.ExplainedVarianceRatio);
+        Assert.Empty(p.VarianceShare);
         double trust = NeighbourPreservation.Trustworthiness(x, p.Points.Select(q => new[] { q.X, q.Y }).ToArray(), 5);
         // 300 iterations on 8-D isotropic clusters: the within-cluster order cannot all survive in 2-D; 0.8 is
         // common practice, no source (a random layout scores about 0.5; the thorough check is in TsneTests).

@@ -104,7 +104,7 @@ public sealed class ModelBundleTests : IDisposable
     {
         var options = new TrainingOptions { Epochs = 1, BatchSize = 64, CheckpointDirectory = _dir };
         Trainer.Fit(TinySets.Model(), TinySets.Make(64, 1), null, options);
-        var e = Assert.Throws<BundleError>(() => ModelBundle.Load(Path.Combine(_dir, "last.kitckpt")));
+        var e = Assert.Throws<BundleError>(() => ModelBundle.Load(Trainer.CheckpointPath(_dir)));
         Assert.Contains("this is a kit training checkpoint, not a kit model bundle", e.Message);
     }
 

@@ -36,7 +36,7 @@ public sealed class TrainCommandTests : IDisposable
         Assert.Equal(0, Train(data, b));
         Assert.Equal(File.ReadAllBytes(Path.Combine(a, "metrics.json")), File.ReadAllBytes(Path.Combine(b, "metrics.json")));
         Assert.Equal(File.ReadAllBytes(Path.Combine(a, "model.kitmodel")), File.ReadAllBytes(Path.Combine(b, "model.kitmodel")));
-        foreach (var f in new[] { "timings.json", "report.html", "checkpoints/last.kitckpt" }) Assert.True(File.Exists(Path.Combine(a, f)), f);
+        foreach (var f in new[] { "timings.json", "report.html", "checkpoints/resume-state.kit" }) Assert.True(File.Exists(Path.Combine(a, f)), f);
 
         var metrics = JsonNode.Parse(File.ReadAllText(Path.Combine(a, "metrics.json")))!;
         Assert.Equal(2, metrics["history"]!.AsArray().Count);

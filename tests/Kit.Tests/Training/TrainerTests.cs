@@ -71,13 +71,39 @@ public sealed class TrainerTests : IDisposable
     }
 
     [Fact]
+    public void Checkpoints_are_written_as_resume_state_and_the_former_name_is_still_resumed()
+    {
+        var straight = TinySets.Model();
+        var hs = Trainer.Fit(straight, Train, Validation, Options());
+
+        var options = Options() with { CheckpointDirectory = _dir, Resume = true };
+        using var cancel = new CancellationTokenSource();
+        var stopper = new Progress(p => { if (p.Epoch == 3) cancel.Cancel(); });
+        Trainer.Fit(TinySets.Model(), Train, Validation, options, stopper, cancel.Token);
+        Assert.Equal(new[] { "resume-state.kit" }, Directory.GetFiles(_dir).Select(Path.GetFileName).ToArray());
+
+        // A run interrupted under the former release left its checkpoint as last.kitckpt.
+        string former = Path.Combine(_dir, "last.kitckpt");
+        File.Move(Trainer.CheckpointPath(_dir), former);
+        Assert.Equal(former, Trainer.ResumeCheckpoint(_dir));
+
+        var resumed = TinySets.Model(initSeed: 99);
+        var h2 = Trainer.Fit(resumed, Train, Validation, options);
+        Assert.Equal(2, h2.ResumedAfterEpoch);
+        TinySets.AssertSameWeights(straight, resumed);
+        Assert.Equal(TinySets.Numbers(hs), TinySets.Numbers(h2));
+        // Once saved under the current name, the former file is gone, so no stale state is read later.
+        Assert.Equal(new[] { "resume-state.kit" }, Directory.GetFiles(_dir).Select(Path.GetFileName).ToArray());
+    }
+
+    [Fact]
     public void A_checkpoint_from_another_run_is_refused()
     {
         var options = Options(epochs: 1) with { CheckpointDirectory = _dir, Resume = true };
         Trainer.Fit(TinySets.Model(), Train, Validation, options);
         var e = Assert.Throws<BundleError>(() => Trainer.Fit(TinySets.Model(), Train, Validation, options with { LearningRate = 0.5 }));
         Assert.Contains("different run", e.Message);
-        Assert.StartsWith(Path.Combine(_dir, "last.kitckpt") + ":", e.Message);
+        Assert.StartsWith(Trainer.CheckpointPath(_dir) + ":", e.Message);
     }
 
     [Fact]

@@ -23,7 +23,7 @@ internal static class ReportSamples
             DataViews.Leakage(LeakageAudit.Run(table, split)),
             DataViews.Encoding(coverage, new TruncationReport(table.Count, 64, TruncationPolicy.KeepHead, 0, 0, 1000, 40, 0)),
             HistoryViews.Curves(ViewSamples.History()),
-            MetricsViews.Summary(s.Metrics),
+            MetricsViews.Summary(s.Metrics, HeadlineIntervals.Of(s.Metrics, 200, 3)),
             MetricsViews.PerClass(s.Metrics),
             MetricsViews.Confusion(s.Metrics, false),
             MetricsViews.Confusion(s.Metrics, true),

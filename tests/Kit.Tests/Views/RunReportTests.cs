@@ -130,7 +130,7 @@ public class RunReportTests(SmallRun small) : IClassFixture<SmallRun>
             Assert.Equal(c.Result.Tokens.Select(t => t == Vocabulary.UnknownId), c.Unknown);
         }
         var mistake = _d.Occlusions.FirstOrDefault(c => c.TrueClass != c.PredictedClass);
-        if (mistake is not null) Assert.Equal(_d.Errors.ConfidentMistakes[0].Text, mistake.Text);
+        if (mistake is not null) Assert.Equal(_d.Errors.SureMistakes[0].Text, mistake.Text);
     }
 
     [Fact]

@@ -61,15 +61,15 @@ public class ViewTests
     }
 
     [Fact]
-    public void Per_class_bars_are_the_records_scores_with_support_in_the_ticks()
+    public void Per_class_bars_are_the_records_scores_with_true_rows_in_the_ticks()
     {
         var chart = MetricsViews.PerClass(S.Metrics);
         Assert.Equal(S.Metrics.PerClass.Select(c => (double?)c.Precision), FigureChecks.Numbers(FigureChecks.Trace(chart, "precision")["y"]));
         Assert.Equal(S.Metrics.PerClass.Select(c => (double?)c.Recall), FigureChecks.Numbers(FigureChecks.Trace(chart, "recall")["y"]));
         Assert.Equal(S.Metrics.PerClass.Select(c => (double?)c.F1), FigureChecks.Numbers(FigureChecks.Trace(chart, "F1")["y"]));
         var ticks = FigureChecks.Trace(chart, "F1")["x"]!.AsArray().Select(t => t!.GetValue<string>()).ToArray();
-        Assert.Equal($"alpha (n={S.Metrics.PerClass[0].Support})", ticks[0]);
-        Assert.Equal($"&lt;/script&gt;&lt;b&gt;bold&lt;/b&gt; (n={S.Metrics.PerClass[2].Support})", ticks[2]);
+        Assert.Equal($"alpha (n={S.Metrics.PerClass[0].TrueRows})", ticks[0]);
+        Assert.Equal($"&lt;/script&gt;&lt;b&gt;bold&lt;/b&gt; (n={S.Metrics.PerClass[2].TrueRows})", ticks[2]);
     }
 
     [Fact]
@@ -116,6 +116,9 @@ public class ViewTests
         Assert.Equal(filled.Select(b => (double?)b.Accuracy), FigureChecks.Numbers(points["y"]));
         Assert.Equal(S.Labels.Length, FigureChecks.Numbers(FigureChecks.Trace(chart, "rows per bin")["y"]).Sum(v => v ?? 0));
         Assert.Contains("equal-mass", FigureChecks.Title(CalibrationViews.Reliability(S.Calibration(BinningScheme.EqualMass))));
+        var diagonal = FigureChecks.Trace(chart, "confidence = accuracy");
+        Assert.Equal(new double?[] { 0, 1 }, FigureChecks.Numbers(diagonal["x"]));
+        Assert.Equal(new double?[] { 0, 1 }, FigureChecks.Numbers(diagonal["y"]));
     }
 
     [Fact]
@@ -207,14 +210,29 @@ public class ViewTests
     }
 
     [Fact]
+    public void The_metrics_summary_shows_accuracy_and_macro_f1_intervals_when_given()
+    {
+        var intervals = HeadlineIntervals.Of(S.Metrics, 300, 5);
+        string html = MetricsViews.Summary(S.Metrics, intervals).ToHtml();
+        Assert.Contains("95 % interval", html);
+        Assert.Contains($"{Html.Pct(intervals.AccuracyLow)} – {Html.Pct(intervals.AccuracyHigh)}", html);
+        Assert.Contains($"{Html.Num(intervals.MacroF1Low)} – {Html.Num(intervals.MacroF1High)}", html);
+        Assert.Contains("<th>true rows</th>", html);
+        Assert.DoesNotContain("support", html);
+        string plain = MetricsViews.Summary(S.Metrics).ToHtml();
+        Assert.DoesNotContain("95 % interval", plain);
+    }
+
+    [Fact]
     public void Error_tables_escape_the_text_and_list_the_records_rows()
     {
         var e = S.Errors();
         string html = ErrorViews.Tables(e).ToHtml();
         Assert.DoesNotContain(ViewSamples.Hostile, html);
-        foreach (var m in e.ConfidentMistakes) Assert.Contains(Html.Escape(m.Text), html);
+        foreach (var m in e.SureMistakes) Assert.Contains(Html.Escape(m.Text), html);
         Assert.Contains($"{e.Mistakes} of {e.Count}", html);
-        Assert.Equal(e.ConfidentMistakes.Count + e.HighestLoss.Count + e.ConfusedPairs.Count + 3, Regex.Matches(html, "<tr>").Count);
+        Assert.Equal(e.SureMistakes.Count + e.CostliestRows.Count + e.MixedUpPairs.Count + 3, Regex.Matches(html, "<tr>").Count);
+        foreach (var caption in new[] { "Wrong and sure", "Costliest rows", "Class pairs mixed up most often" }) Assert.Contains(caption, html);
     }
 
     [Fact]

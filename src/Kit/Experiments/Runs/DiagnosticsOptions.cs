@@ -9,7 +9,7 @@ public sealed record DiagnosticsOptions
 {
     /// <summary>Confidence bins of the reliability diagrams and ECE.</summary>
     public int ReliabilityBins { get; init; } = 15;
-    /// <summary>Bootstrap resamples for the ECE interval (0 skips it).</summary>
+    /// <summary>Bootstrap resamples for the ECE and test macro F1 intervals (0 skips them).</summary>
     public int BootstrapReplicates { get; init; } = 1000;
     /// <summary>Quantile bins of token length for accuracy by length (repeated edges merge, so fewer may result).</summary>
     public int LengthBins { get; init; } = 8;

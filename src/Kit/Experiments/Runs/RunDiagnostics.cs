@@ -19,6 +19,8 @@ public sealed record RunDiagnostics
     public required IReadOnlyList<VocabularyCoverage> Coverage { get; init; }
     /// <summary>Token length (before truncation) of each test row, in the test set's order.</summary>
     public required int[] TestLengths { get; init; }
+    /// <summary>95 % intervals for test accuracy and macro F1 (null when the options ask for no bootstrap).</summary>
+    public HeadlineIntervals? TestIntervals { get; init; }
     public required LengthBreakdown ByLength { get; init; }
     public required CalibrationReport Calibration { get; init; }
     public required CalibrationReport CalibrationEqualMass { get; init; }
@@ -59,6 +61,7 @@ public sealed record RunDiagnostics
         int[] labels = run.Test.Labels;
         int[] predicted = run.TestMetrics.Predicted;
         int[] testLengths = run.TestLengths();
+        var intervals = options.BootstrapReplicates == 0 ? null : HeadlineIntervals.Of(run.TestMetrics, options.BootstrapReplicates, options.Seed);
         var byLength = LengthBreakdown.Compute(labels, predicted, testLengths, names, LengthBins.Quantiles(options.LengthBins));
         var calibration = CalibrationReport.Compute(labels, run.TestProbabilities, names, options.ReliabilityBins, BinningScheme.EqualWidth,
             options.BootstrapReplicates, options.Seed);
@@ -111,7 +114,7 @@ public sealed record RunDiagnostics
 
         return new RunDiagnostics
         {
-            Profile = profile, Split = splitSummary, Leakage = leakage, Coverage = coverage, TestLengths = testLengths, ByLength = byLength,
+            Profile = profile, Split = splitSummary, Leakage = leakage, Coverage = coverage, TestLengths = testLengths, TestIntervals = intervals, ByLength = byLength,
             Calibration = calibration, CalibrationEqualMass = equalMass, Temperature = temperature, CalibrationAfterScaling = after,
             Embedding = embedding, TestRepresentations = representations, Errors = errors, Occlusions = occlusions, Options = options,
             Elapsed = clock.Elapsed,

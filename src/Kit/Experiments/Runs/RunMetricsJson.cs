@@ -85,7 +85,7 @@ public static class RunMetricsJson
                 ["perClass"] = new JsonArray(m.PerClass.Select(c => (JsonNode?)new JsonObject
                 {
                     ["class"] = c.Class, ["precision"] = Num(c.Precision), ["recall"] = Num(c.Recall), ["f1"] = Num(c.F1),
-                    ["support"] = c.Support, ["predicted"] = c.Predicted,
+                    ["trueRows"] = c.TrueRows, ["predictedRows"] = c.PredictedRows,
                 }).ToArray()),
                 ["confusion"] = confusion,
             },

@@ -15,7 +15,7 @@ namespace Kit.Batching;
 /// With a token budget a batch closes before B × (its longest length) would exceed the budget, counting pad
 /// positions as the engine pays for them; <c>batchSize</c> still caps the row count.
 /// </summary>
-public sealed class BucketBatchSampler : IBatchSampler
+public sealed class LengthBuckets : IBatchPlan
 {
     public int BatchSize { get; }
     public ulong Seed { get; }
@@ -23,7 +23,7 @@ public sealed class BucketBatchSampler : IBatchSampler
     /// <summary>Inclusive upper length of each bucket, ascending; null for automatic buckets.</summary>
     public IReadOnlyList<int>? Boundaries { get; }
 
-    public BucketBatchSampler(int batchSize, ulong seed, int? tokenBudget = null, IReadOnlyList<int>? boundaries = null)
+    public LengthBuckets(int batchSize, ulong seed, int? tokenBudget = null, IReadOnlyList<int>? boundaries = null)
     {
         if (batchSize <= 0) throw new ArgumentOutOfRangeException(nameof(batchSize), batchSize, "batch size must be positive");
         if (tokenBudget is <= 0) throw new ArgumentOutOfRangeException(nameof(tokenBudget), tokenBudget, "token budget must be positive");

@@ -4,12 +4,12 @@ using Kit.Data;
 namespace Kit.Batching;
 
 /// <summary>A fresh seeded permutation each epoch, cut every <c>batchSize</c> rows; lengths are ignored.</summary>
-public sealed class RandomBatchSampler : IBatchSampler
+public sealed class ShuffledBatches : IBatchPlan
 {
     public int BatchSize { get; }
     public ulong Seed { get; }
 
-    public RandomBatchSampler(int batchSize, ulong seed)
+    public ShuffledBatches(int batchSize, ulong seed)
     {
         if (batchSize <= 0) throw new ArgumentOutOfRangeException(nameof(batchSize), batchSize, "batch size must be positive");
         BatchSize = batchSize;

@@ -3,11 +3,11 @@ using Kit.Data;
 namespace Kit.Batching;
 
 /// <summary>Rows in set order, cut every <c>batchSize</c> rows: for evaluation, where order must be stable.</summary>
-public sealed class SequentialBatchSampler : IBatchSampler
+public sealed class InOrderBatches : IBatchPlan
 {
     public int BatchSize { get; }
 
-    public SequentialBatchSampler(int batchSize)
+    public InOrderBatches(int batchSize)
     {
         if (batchSize <= 0) throw new ArgumentOutOfRangeException(nameof(batchSize), batchSize, "batch size must be positive");
         BatchSize = batchSize;
