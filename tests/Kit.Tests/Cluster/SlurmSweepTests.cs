@@ -24,6 +24,7 @@ public sealed class SlurmSweepTests : IDisposable
     static readonly TimeSpan Bound = TimeSpan.FromMinutes(3);
 
     static readonly Lazy<IReadOnlyDictionary<string, string>> s_reference = new(UnshardedRun);
+    static double s_referenceSeconds;
 
     readonly ITestOutputHelper _output;
     readonly string _dir = Directory.CreateTempSubdirectory("kit-slurm-").FullName;
@@ -89,6 +90,7 @@ public sealed class SlurmSweepTests : IDisposable
         Assert.True(done is >= 1 and < RunsPerShard,
             $"task 1 had {done} of {RunsPerShard} runs when cancelled; the test needs it cancelled mid-way\n{Diagnostics()}");
         Assert.Equal(RunsPerShard, kept.Records.Count(r => r.Shard == $"2/{Shards}"));
+        _output.WriteLine($"task 1 cancelled after {done} of {RunsPerShard} runs");
 
         // The same array again, then the merge job after it, as the page says to do when tasks fail.
         var (again, merge) = SubmitAsDocumented();
@@ -141,8 +143,9 @@ public sealed class SlurmSweepTests : IDisposable
 
     IReadOnlyList<(string Id, string State, string Reason)> WaitUntilEnded(string job)
     {
+        var clock = System.Diagnostics.Stopwatch.StartNew();
         var jobs = SlurmCluster.WaitUntilEnded(job, Bound, Diagnostics);
-        _output.WriteLine($"{job}: {SlurmCluster.Describe(jobs)}");
+        _output.WriteLine($"{job}: {SlurmCluster.Describe(jobs)} (waited {clock.Elapsed.TotalSeconds:0.0} s)");
         return jobs;
     }
 
@@ -163,6 +166,7 @@ public sealed class SlurmSweepTests : IDisposable
         var ids = store.Records.Select(r => r.Id).ToList();
         Assert.Equal(ids.Count, ids.Distinct().Count()); // nothing duplicated
         var reference = s_reference.Value;
+        _output.WriteLine($"unsharded reference run: {s_referenceSeconds:0.0} s");
         Assert.Equal(reference.Keys.Order(StringComparer.Ordinal), ids.Order(StringComparer.Ordinal)); // nothing lost
         foreach (var r in store.Records) Assert.Equal(reference[r.Id], r.ResultsJson());
         Assert.All(store.Records, r => Assert.NotNull(r.Shard));
@@ -177,11 +181,13 @@ public sealed class SlurmSweepTests : IDisposable
         string dir = Directory.CreateTempSubdirectory("kit-slurm-reference-").FullName;
         try
         {
+            var clock = System.Diagnostics.Stopwatch.StartNew();
             var (code, _, err) = KitCli.Run([
                 "compare", KitCli.DemoHostnames, "--text", "text", "--label", "label", "--group", "group",
                 "--grid", Grid, "--seeds", Seeds, "--folds", Folds, .. Settings.Split(' '), "--threads", "1", "--out", dir,
             ]);
             Assert.True(code == 0, $"unsharded reference run failed ({code}): {err}");
+            s_referenceSeconds = clock.Elapsed.TotalSeconds;
             var records = ResultsStore.Read(dir).Records;
             Assert.Equal(Shards * RunsPerShard, records.Count);
             return records.ToDictionary(r => r.Id, r => r.ResultsJson());
