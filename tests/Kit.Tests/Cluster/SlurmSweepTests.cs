@@ -18,7 +18,7 @@ public sealed class SlurmSweepTests : IDisposable
     const string Grid = "cell=gru,lstm";
     const string Seeds = "2", Folds = "2";
     // Big enough that a task is still training for a few seconds after its first run (the fault test cancels then).
-    const string Settings = "--sample 1500 --epochs 4 --embed 8 --hidden 32 --max-length 32";
+    const string Settings = "--sample 1500 --epochs 3 --embed 8 --hidden 32 --max-length 32";
     // Sizes for a 2-core machine; one engine thread per task, as in the reference run.
     static readonly string[] ArraySizes = [$"--array=1-{Shards}", "--cpus-per-task=1", "--time=00:10:00"];
     static readonly TimeSpan Bound = TimeSpan.FromMinutes(3);
@@ -27,13 +27,14 @@ public sealed class SlurmSweepTests : IDisposable
     static double s_referenceSeconds;
 
     readonly ITestOutputHelper _output;
-    readonly string _dir = Directory.CreateTempSubdirectory("kit-slurm-").FullName;
+    readonly string _dir;
     readonly List<string> _jobs = [];
 
     public SlurmSweepTests(ITestOutputHelper output)
     {
         _output = output;
         SlurmFactAttribute.Demand();
+        _dir = Directory.CreateTempSubdirectory("kit-slurm-").FullName;
         foreach (var script in new[] { "sweep.sbatch", "merge.sbatch" })
             File.WriteAllText(Path.Combine(_dir, script), ClusterPage.Block($"`{script}`"));
         Directory.CreateDirectory(Logs);
@@ -175,7 +176,7 @@ public sealed class SlurmSweepTests : IDisposable
         Assert.Contains("naive-bayes", File.ReadAllText(report));
     }
 
-    /// <summary>The same sweep in one process, unsharded, one engine thread (as every array task has).</summary>
+    /// <summary>The same sweep unsharded on this machine: two worker processes of one engine thread each (as every array task has).</summary>
     static IReadOnlyDictionary<string, string> UnshardedRun()
     {
         string dir = Directory.CreateTempSubdirectory("kit-slurm-reference-").FullName;
@@ -184,7 +185,7 @@ public sealed class SlurmSweepTests : IDisposable
             var clock = System.Diagnostics.Stopwatch.StartNew();
             var (code, _, err) = KitCli.Run([
                 "compare", KitCli.DemoHostnames, "--text", "text", "--label", "label", "--group", "group",
-                "--grid", Grid, "--seeds", Seeds, "--folds", Folds, .. Settings.Split(' '), "--threads", "1", "--out", dir,
+                "--grid", Grid, "--seeds", Seeds, "--folds", Folds, .. Settings.Split(' '), "--workers", "2", "--threads", "1", "--out", dir,
             ]);
             Assert.True(code == 0, $"unsharded reference run failed ({code}): {err}");
             s_referenceSeconds = clock.Elapsed.TotalSeconds;
