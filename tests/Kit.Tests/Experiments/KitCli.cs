@@ -14,17 +14,22 @@ internal static class KitCli
 
     public static string DemoHostnames => Path.Combine(RepoRoot(), "data-demo", "hostnames.csv");
 
+    /// <summary>The dotnet host running the tests (so child processes use the same runtime).</summary>
+    public static string Host() => Environment.ProcessPath is { } p && Path.GetFileNameWithoutExtension(p) == "dotnet"
+        ? p
+        : Environment.GetEnvironmentVariable("DOTNET_HOST_PATH") ?? "dotnet";
+
+    /// <summary>Kit.Cli.dll of the test output folder.</summary>
+    public static string CliDll => Path.Combine(AppContext.BaseDirectory, "Kit.Cli.dll");
+
     public static ProcessStartInfo Start(IEnumerable<string> args, IDictionary<string, string>? environment = null)
     {
-        string host = Environment.ProcessPath is { } p && Path.GetFileNameWithoutExtension(p) == "dotnet"
-            ? p
-            : Environment.GetEnvironmentVariable("DOTNET_HOST_PATH") ?? "dotnet";
-        var start = new ProcessStartInfo(host)
+        var start = new ProcessStartInfo(Host())
         {
             RedirectStandardOutput = true, RedirectStandardError = true, UseShellExecute = false,
             WorkingDirectory = AppContext.BaseDirectory,
         };
-        start.ArgumentList.Add(Path.Combine(AppContext.BaseDirectory, "Kit.Cli.dll"));
+        start.ArgumentList.Add(CliDll);
         foreach (var a in args) start.ArgumentList.Add(a);
         foreach (var (k, v) in environment ?? new Dictionary<string, string>()) start.Environment[k] = v;
         return start;
