@@ -92,7 +92,7 @@ public sealed class SweepCliTests : IDisposable
         Directory.CreateDirectory(store);
         File.WriteAllText(Path.Combine(store, ResultsStore.DefinitionFile), "{\"configs\": [\"something else\"]}");
         var (code, _, err) = KitCli.Run(KitCli.TinySweep(store, "cell=gru", 1));
-        Assert.Equal(1, code);
+        Assert.Equal(2, code);   // bad input, as for every command
         Assert.Contains("describes a different sweep", err);
         Assert.False(File.Exists(Path.Combine(store, ResultsStore.MainFile)));
     }
