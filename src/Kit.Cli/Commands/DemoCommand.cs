@@ -28,7 +28,7 @@ internal static class DemoCommand
         Console.Error.WriteLine($"demo: {(quick ? "quick" : "full")} run on {spec.DataPath}");
         var run = SingleRun.Execute(spec, new ConsoleProgress());
         Directory.CreateDirectory(outDir);
-        var export = ReportExport.WriteReport(outDir, "Hostname triage — character GRU",
+        var export = Kit.Export.ReportExport.WriteReport(outDir, "Hostname triage — character GRU",
             $"Invented demo data ({run.Labels.Count} generator families). Test split: accuracy {run.TestMetrics.Accuracy:P1}, macro F1 {run.TestMetrics.MacroF1:F3}.",
             RunReport.Views(run), images);
         Console.WriteLine($"test accuracy {run.TestMetrics.Accuracy:P2}, macro F1 {run.TestMetrics.MacroF1:F3}");
