@@ -34,7 +34,7 @@ internal static class DemoCommand
         Console.WriteLine($"wrote {files}");
         if (images)
         {
-            var export = ReportExport.WriteReport(outDir, report.Title, report.Subtitle, report.Views, images);
+            var export = Kit.Export.ReportExport.WriteReport(outDir, report.Title, report.Subtitle, report.Views, images);
             Console.WriteLine(export.Message);
         }
         return 0;

@@ -1,5 +1,5 @@
 using System.CommandLine;
-using Kit.Notebooks;
+using Kit.Tools.Notebooks;
 
 namespace Kit.Cli.Commands;
 

@@ -4,7 +4,7 @@ namespace Kit.Common;
 /// Writes a file so that a reader (or a process killed half way) sees either the old content or the new,
 /// never a torn one: write a temporary file in the same folder, flush it to disk, then rename over the target.
 /// </summary>
-public static class AtomicFile
+internal static class AtomicFile
 {
     public static void WriteAllBytes(string path, ReadOnlySpan<byte> content)
     {

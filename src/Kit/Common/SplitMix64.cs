@@ -5,7 +5,7 @@ namespace Kit.Common;
 /// batch plans, bootstraps, t-SNE initialisation) uses it rather than System.Random, so results depend only on the
 /// seed and never on the runtime's choice of algorithm.
 /// </summary>
-public sealed class SplitMix64(ulong seed)
+internal sealed class SplitMix64(ulong seed)
 {
     ulong _state = seed;
     double? _spareGaussian;

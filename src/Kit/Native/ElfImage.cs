@@ -9,7 +9,7 @@ namespace Kit.Native;
 /// against the C++ runtime of this machine, and to relax one requirement in a copy.
 /// Layouts follow the System V ABI (gABI) and the LSB "Symbol Versioning" chapter.
 /// </summary>
-public sealed class ElfImage
+internal sealed class ElfImage
 {
     const uint ShtDynsym = 11;
     const uint ShtGnuVerdef = 0x6ffffffd;
@@ -163,13 +163,13 @@ public sealed class ElfImage
     sealed record Section(uint Type, ulong Offset, ulong Size, uint Link, uint Info, ulong EntSize);
 }
 
-public sealed record VersionNeed(string File, IReadOnlyList<VersionNeedAux> Versions);
+internal sealed record VersionNeed(string File, IReadOnlyList<VersionNeedAux> Versions);
 
 /// <summary>One Vernaux entry; <see cref="FileOffset"/> is where the entry starts in the file.</summary>
-public sealed record VersionNeedAux(string Name, ushort Flags, ushort Index, int FileOffset)
+internal sealed record VersionNeedAux(string Name, ushort Flags, ushort Index, int FileOffset)
 {
     public int FlagsOffset => FileOffset + 4;
 }
 
 /// <summary>A .dynsym entry; <see cref="VersionOffset"/> is its .gnu.version slot in the file, or -1.</summary>
-public sealed record DynamicSymbol(int Index, string Name, ushort VersionIndex, int VersionOffset);
+internal sealed record DynamicSymbol(int Index, string Name, ushort VersionIndex, int VersionOffset);

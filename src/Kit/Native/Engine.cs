@@ -152,7 +152,7 @@ public static class Engine
     }
 
     /// <summary>$KIT_CACHE_DIR, else $XDG_CACHE_HOME/kit, else ~/.cache/kit.</summary>
-    public static string CacheRoot()
+    internal static string CacheRoot()
     {
         string? explicitDir = Environment.GetEnvironmentVariable("KIT_CACHE_DIR");
         if (!string.IsNullOrEmpty(explicitDir)) return explicitDir;

@@ -3,7 +3,7 @@ using System.Buffers.Binary;
 namespace Kit.Native;
 
 /// <summary>One byte range changed by <see cref="VersionRelaxer"/>, with the old and new little-endian value.</summary>
-public sealed record ByteEdit(int Offset, int Length, ulong Before, ulong After, string Why);
+internal sealed record ByteEdit(int Offset, int Length, ulong Before, ulong After, string Why);
 
 /// <summary>
 /// Makes a copy of a shared object loadable against an older C++ runtime when the only thing it needs from
@@ -16,7 +16,7 @@ public sealed record ByteEdit(int Offset, int Length, ulong Before, ulong After,
 ///    non-weak requirement there at load time even when no symbol uses it.
 /// Anything else bound to the version makes the edit unsafe, and it is refused.
 /// </summary>
-public static class VersionRelaxer
+internal static class VersionRelaxer
 {
     public static (byte[] Patched, IReadOnlyList<ByteEdit> Edits) Relax(
         byte[] original, string path, string library, string version, IReadOnlySet<string> allowedSymbols)

@@ -159,6 +159,6 @@ public class RunReportTests(SmallRun small) : IClassFixture<SmallRun>
         foreach (var chart in StackView.ChartsIn(views)) FigureChecks.HasTitledAxes(chart);
         string page = ReportWriter.Render("Small run", "invented demo hostnames, 2 epochs", views);
         Assert.Contains($"data-kit-charts=\"{charts}\"", page);
-        File.WriteAllText(Path.Combine(BrowserTests.ArtifactFolder(), "run-report.html"), page);   // for a person to look at
+        File.WriteAllText(Path.Combine(Kit.Tests.Export.BrowserTests.ArtifactFolder(), "run-report.html"), page);   // for a person to look at
     }
 }

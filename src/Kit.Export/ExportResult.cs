@@ -1,4 +1,4 @@
-namespace Kit.Views;
+namespace Kit.Export;
 
 /// <summary>
 /// What an export wrote. <see cref="Browser"/> is the executable used, or null when none was found (then

@@ -2,7 +2,7 @@ using System.Text;
 using System.Text.RegularExpressions;
 using Kit.Views;
 
-namespace Kit.Notebooks;
+namespace Kit.Tools.Notebooks;
 
 /// <summary>
 /// Enough Markdown for the prose cells of an exported notebook: headings, paragraphs, bullet and numbered lists,

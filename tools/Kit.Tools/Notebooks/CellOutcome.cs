@@ -1,4 +1,4 @@
-namespace Kit.Notebooks;
+namespace Kit.Tools.Notebooks;
 
 public enum CellStatus { Passed, Failed, NotRun, Text }
 

@@ -3,7 +3,7 @@ using System.Security.Cryptography;
 using System.Text;
 using System.Text.RegularExpressions;
 
-namespace Kit.Notebooks;
+namespace Kit.Tools.Notebooks;
 
 /// <summary>
 /// The folder package feed that notebooks reference with <c>#i "nuget: ..."</c>: Kit and Kit.Notebooks packed

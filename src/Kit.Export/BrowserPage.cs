@@ -3,7 +3,7 @@ using System.Text.Json;
 using PuppeteerSharp;
 using PuppeteerSharp.Media;
 
-namespace Kit.Views;
+namespace Kit.Export;
 
 /// <summary>How many charts a page promised, drew and failed, read from the rendered page itself.</summary>
 public sealed record ChartCensus(int Expected, int Drawn, int WithSvg, int MainSvgs, int FooterCount, IReadOnlyList<string> Errors)

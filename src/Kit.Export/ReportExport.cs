@@ -1,8 +1,9 @@
 using System.Globalization;
 using System.Text;
 using Kit.Common;
+using Kit.Views;
 
-namespace Kit.Views;
+namespace Kit.Export;
 
 /// <summary>
 /// Saves a report or a single chart: HTML always (self-contained, plotly.js embedded once), and, when a

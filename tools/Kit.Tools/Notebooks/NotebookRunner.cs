@@ -7,7 +7,7 @@ using Microsoft.DotNet.Interactive.Events;
 using Microsoft.DotNet.Interactive.Formatting;
 using Microsoft.DotNet.Interactive.PackageManagement;
 
-namespace Kit.Notebooks;
+namespace Kit.Tools.Notebooks;
 
 /// <summary>
 /// Runs a notebook without a front end: code cells in order in a fresh embedded C# kernel, stopping at the first

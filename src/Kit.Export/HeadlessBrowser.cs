@@ -1,6 +1,6 @@
 using PuppeteerSharp;
 
-namespace Kit.Views;
+namespace Kit.Export;
 
 /// <summary>
 /// A locally installed Chromium driven headless, for chart images, report screenshots and PDFs. Nothing is

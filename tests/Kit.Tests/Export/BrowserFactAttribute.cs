@@ -1,6 +1,6 @@
-using Kit.Views;
+using Kit.Export;
 
-namespace Kit.Tests.Views;
+namespace Kit.Tests.Export;
 
 /// <summary>
 /// A fact that needs a local Chromium. Without one it is skipped with a message saying what to install — unless

@@ -1,6 +1,6 @@
 using Microsoft.DotNet.Interactive.Documents;
 
-namespace Kit.Notebooks;
+namespace Kit.Tools.Notebooks;
 
 /// <summary>A headless run of one notebook: every cell's outcome, and the executed document ready to save.</summary>
 public sealed record NotebookRunResult(string Path, IReadOnlyList<CellOutcome> Cells, InteractiveDocument Executed, TimeSpan Elapsed)

@@ -3,7 +3,7 @@ using Kit.Common;
 using Microsoft.DotNet.Interactive.Documents;
 using Microsoft.DotNet.Interactive.Documents.Jupyter;
 
-namespace Kit.Notebooks;
+namespace Kit.Tools.Notebooks;
 
 /// <summary>Reading and writing .ipynb files (nbformat 4) with the kernel names the headless runner knows.</summary>
 public static class NotebookFile

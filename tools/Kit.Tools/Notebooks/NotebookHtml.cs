@@ -2,7 +2,7 @@ using System.Globalization;
 using System.Text;
 using Kit.Views;
 
-namespace Kit.Notebooks;
+namespace Kit.Tools.Notebooks;
 
 /// <summary>
 /// An executed notebook as one self-contained HTML page: prose, code, outputs, and plotly.js embedded once in the

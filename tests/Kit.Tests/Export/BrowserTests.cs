@@ -1,7 +1,9 @@
+using Kit.Export;
 using Kit.Views;
+using Kit.Tests.Views;
 using Xunit.Abstractions;
 
-namespace Kit.Tests.Views;
+namespace Kit.Tests.Export;
 
 [CollectionDefinition(Name, DisableParallelization = true)]
 public sealed class BrowserCollection

@@ -1,4 +1,4 @@
-namespace Kit.Notebooks;
+namespace Kit.Tools.Notebooks;
 
 /// <summary>A notebook file that cannot be run: missing, not JSON, or not nbformat 4. The message names the file.</summary>
 public sealed class NotebookFormatException(string path, string problem, long? line = null)

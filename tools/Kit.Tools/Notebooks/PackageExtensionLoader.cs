@@ -4,7 +4,7 @@ using System.Runtime.Loader;
 using Microsoft.DotNet.Interactive;
 using Microsoft.DotNet.Interactive.Events;
 
-namespace Kit.Notebooks;
+namespace Kit.Tools.Notebooks;
 
 /// <summary>
 /// The embedded kernel's counterpart of what the notebook tool does after <c>#r "nuget: ..."</c>: look in each
@@ -60,8 +60,9 @@ internal static class PackageExtensionLoader
     }
 
     /// <summary>
-    /// An assembly already in the process under the same name is used as is: the runner itself references
-    /// Kit.Notebooks, and loading a second copy would give the notebook a second set of formatter and view types.
+    /// An assembly already in the process under the same name is used as is: the host (a test, or a notebook that
+    /// referenced the built kit) may have loaded Kit.Notebooks already, and loading a second copy would give the
+    /// notebook a second set of formatter and view types.
     /// </summary>
     static Assembly LoadOnce(string path)
     {
