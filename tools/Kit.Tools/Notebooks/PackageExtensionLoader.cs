@@ -25,13 +25,21 @@ internal static class PackageExtensionLoader
 
         // After the command that restored the package, still inside it, so what the extension displays lands in
         // that cell's outputs and a failing extension fails that cell.
+        // A package whose event arrived only after its cell finished is loaded before the next cell runs, so what
+        // the extension defers to the next submission (its namespace imports) is always in place for that cell.
         kernel.AddMiddleware(async (command, context, next) =>
         {
+            await LoadPending();
             await next(command, context);
-            while (pending.TryDequeue(out var package))
+            await LoadPending();
+
+            async Task LoadPending()
             {
-                var dir = new DirectoryInfo(Path.Combine(package.PackageRoot, "interactive-extensions", "dotnet"));
-                if (dir.Exists) await LoadAsync(dir, kernel, context);
+                while (pending.TryDequeue(out var package))
+                {
+                    var dir = new DirectoryInfo(Path.Combine(package.PackageRoot, "interactive-extensions", "dotnet"));
+                    if (dir.Exists) await LoadAsync(dir, kernel, context);
+                }
             }
         });
     }
