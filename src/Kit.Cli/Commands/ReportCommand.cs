@@ -48,8 +48,11 @@ internal static class ReportCommand
         Console.WriteLine(string.Create(inv, $"{"config",-40} {"runs",4} {"accuracy",9} {"sd",7} {"macro F1",8} {"ECE",6} {"params",10}"));
         foreach (var s in comparison.Configs)
             Console.WriteLine(string.Create(inv,
-                $"{s.Config,-40} {s.Runs,4} {s.Accuracy.Mean,9:P2} {s.Accuracy.StandardDeviation,7:F4} {s.MacroF1.Mean,8:F3} {s.Ece.Mean,6:F3} {s.Parameters,10:N0}"));
+                $"{s.Config,-40} {s.Runs,4} {s.Accuracy.Mean,9:P2} {Spread(s.Accuracy.StandardDeviation),7} {s.MacroF1.Mean,8:F3} {s.Ece.Mean,6:F3} {s.Parameters,10:N0}"));
         Console.WriteLine($"wrote {path}");
         return 0;
     }
+
+    /// <summary>A spread needs two runs; with one there is none to show, so the table says "–" rather than NaN.</summary>
+    internal static string Spread(double sd) => double.IsFinite(sd) ? sd.ToString("F4", CultureInfo.InvariantCulture) : "–";
 }

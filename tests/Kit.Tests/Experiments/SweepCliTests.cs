@@ -83,6 +83,9 @@ public sealed class SweepCliTests : IDisposable
         var (reportCode, reportOut, reportErr) = KitCli.Run(["report", sharded]);
         Assert.True(reportCode == 0, reportErr);
         Assert.Contains("naive-bayes", reportOut);
+        // One seed per config leaves no spread: the table says so with "–", never "NaN".
+        Assert.DoesNotContain("NaN", reportOut);
+        Assert.Contains(" – ", reportOut);
     }
 
     [Fact]
