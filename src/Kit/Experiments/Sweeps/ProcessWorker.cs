@@ -8,7 +8,7 @@ namespace Kit.Experiments;
 /// that prefix are ignored, so stray output from native code cannot corrupt the exchange. The worker's
 /// standard error is left on the console so its progress shows.
 /// </summary>
-public sealed class ProcessWorker : IRunExecutor, IDisposable
+internal sealed class ProcessWorker : IRunExecutor, IDisposable
 {
     public const string ResultPrefix = "result ", ErrorPrefix = "error ";
     readonly Process _process;

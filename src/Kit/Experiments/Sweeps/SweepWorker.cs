@@ -4,7 +4,7 @@ namespace Kit.Experiments;
 /// The worker side of <see cref="ProcessWorker"/>: reads run ids, one per line, until its input ends, and answers
 /// each with the finished record. A failed run is answered with an error line; the worker carries on.
 /// </summary>
-public static class SweepWorker
+internal static class SweepWorker
 {
     public static int Serve(Sweep sweep, TextReader input, TextWriter output, TextWriter log)
     {
