@@ -41,9 +41,9 @@ public class NotebookBrowserTests(FeedFixture feed, ITestOutputHelper output)
         RequiredTool.Browser.Demand();
         var run = await feed.Executed(FirstLook);
         Assert.True(run.Succeeded, run.FailureMessage);
-        // The notebook says "N views, C charts → PATH" when it writes the report (C counted from the views, not the page).
+        // The notebook says "N sections, C charts → PATH" when it writes the report (C counted from the views, not the page).
         string said = run.Outputs.Select(o => o.Text).Single(t => t?.Contains(" charts → ") == true)!;
-        var m = Regex.Match(said, @"(\d+) views, (\d+) charts → (\S+\.html)");
+        var m = Regex.Match(said, @"(\d+) sections, (\d+) charts → (\S+\.html)");
         Assert.True(m.Success, said);
         int charts = int.Parse(m.Groups[2].Value);
         string report = Path.Combine(TestArtifacts.Folder("browser"), "01-first-look.report.html");
