@@ -28,7 +28,7 @@ internal static class CompareCommand
         var tokenizer = new Option<string>("--tokenizer") { Description = "character, character-folded, byte or word", DefaultValueFactory = _ => "character" };
         var maxLength = new Option<int>("--max-length") { Description = "Longest sequence in tokens (longer ones are cut)", DefaultValueFactory = _ => 64 };
         var sample = new Option<int?>("--sample") { Description = "Use a stratified sample of this many rows" };
-        var grid = new Option<string?>("--grid") { Description = "Configs: \"key=v1,v2; key=v1\" over cell, embed, hidden, layers, bidirectional, pooling, epochs, batch, lr" };
+        var grid = new Option<string?>("--grid") { Description = "Configs: \"key=v1,v2; key=v1\" over cell, encoder, embed, hidden, layers, bidirectional, pooling, heads, positions, dropout (and embed-, layer-, head-dropout), epochs, batch, lr" };
         var seeds = new Option<int>("--seeds") { Description = "Training seeds per config", DefaultValueFactory = _ => 1 };
         var folds = new Option<int?>("--folds") { Description = "k-fold runs (default: one fixed holdout split)" };
         var output = new Option<string>("--out") { Description = "Results folder (store, sweep description, report)", Required = true };

@@ -31,6 +31,9 @@ internal static class TrainCommand
         var hidden = new Option<int>("--hidden") { Description = "Hidden size", DefaultValueFactory = _ => 64 };
         var layers = new Option<int>("--layers") { Description = "Stacked layers", DefaultValueFactory = _ => 1 };
         var bidirectional = new Option<bool>("--bidirectional") { Description = "Read each sequence both ways" };
+        var encoder = new Option<string?>("--encoder") { Description = "Encoder family (gru, lstm, rnn, cnn, transformer); overrides --cell" };
+        encoder.AcceptOnlyFromAmong("gru", "lstm", "rnn", "cnn", "transformer");
+        var dropout = new Option<double>("--dropout") { Description = "Dropout on embeddings, between layers and before the head", DefaultValueFactory = _ => 0 };
         var pooling = Choice("--pooling", "How steps become one vector", "last", "last", "mean", "max", "attention");
         var epochs = new Option<int>("--epochs") { Description = "Epochs", DefaultValueFactory = _ => 8 };
         var batch = new Option<int>("--batch") { Description = "Batch size", DefaultValueFactory = _ => 64 };
@@ -50,7 +53,7 @@ internal static class TrainCommand
         var command = new Command("train", "Train one recurrent classifier and write its bundle, metrics, timings and report.")
         {
             data, text, label, group, tokenizer, maxLength, cell, embed, hidden, layers, bidirectional, pooling, epochs, batch, lr,
-            optimizer, schedule, weightDecay, clip, classWeights, smoothing, monitor, patience, seed, threads, outDir, resume,
+            encoder, dropout, optimizer, schedule, weightDecay, clip, classWeights, smoothing, monitor, patience, seed, threads, outDir, resume,
         };
         command.SetAction(parse =>
         {
@@ -95,8 +98,10 @@ internal static class TrainCommand
                 Layers = parse.GetValue(layers),
                 Bidirectional = parse.GetValue(bidirectional),
                 Pooling = Enum.Parse<PoolingKind>(parse.GetValue(pooling)!, ignoreCase: true),
+                Dropout = parse.GetValue(dropout),
                 Training = training,
             };
+            if (parse.GetValue(encoder) is string family) spec = SweepConfig.Of(("encoder", family)).Apply(spec);
             return CliErrors.Guard(() => Guarded(() => Run(spec, dir)));
         });
         return command;
@@ -126,6 +131,7 @@ internal static class TrainCommand
     static int Run(RunSpec spec, string dir)
     {
         spec.Training.Validate();
+        if (!(spec.Dropout >= 0 && spec.Dropout < 1)) throw new ArgumentException($"--dropout {spec.Dropout}: a rate in [0, 1)");
         Console.Error.WriteLine(Kit.Native.Engine.EnsureLoaded());
         string checkpoint = Trainer.CheckpointPath(spec.Training.CheckpointDirectory!);
         if (spec.Training.Resume)
@@ -167,7 +173,7 @@ internal static class TrainCommand
         AtomicFile.WriteAllText(Path.Combine(dir, "metrics.json"), RunMetricsJson.Metrics(run, diagnostics));
         AtomicFile.WriteAllText(Path.Combine(dir, "timings.json"), RunMetricsJson.Timings(run));
         string report = Path.Combine(dir, "report.html");
-        ReportWriter.Write(report, $"{spec.Cell} classifier — {Path.GetFileName(spec.DataPath)}",
+        ReportWriter.Write(report, $"{spec.EncoderName} classifier — {Path.GetFileName(spec.DataPath)}",
             $"Test split: accuracy {run.TestMetrics.Accuracy.ToString("P1", CultureInfo.InvariantCulture)}, macro F1 {run.TestMetrics.MacroF1.ToString("F3", CultureInfo.InvariantCulture)}.",
             RunReport.Views(run, diagnostics));
         if (run.History.StopReason is string why) Console.Error.WriteLine(why);

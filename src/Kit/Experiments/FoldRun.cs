@@ -31,8 +31,7 @@ public static class FoldRun
         var test = encoded.Subset(split.Test);
 
         Kit.Native.Engine.EnsureLoaded();
-        var config = new ClassifierConfig(vocab.Count, labels.Count, spec.Cell, spec.EmbeddingSize, spec.HiddenSize, spec.Layers,
-            spec.Bidirectional, Pooling: spec.Pooling);
+        var config = spec.ModelConfig(vocab.Count, labels.Count);
         TorchSharp.torch.manual_seed((long)(spec.Training.Seed & 0x7FFF_FFFF_FFFF_FFFF));
         var model = config.Build();
         var history = Trainer.Fit(model, train, validation.Count > 0 ? validation : null, spec.Training, progress, cancel);

@@ -85,7 +85,7 @@ public sealed class Sweep
         var run = FoldRun.Execute(spec, Table, Rows, split, progress, cancel);
         var epochs = run.History.Epochs.Select(e => new EpochPoint(e.Epoch, e.TrainLoss, e.TrainAccuracy, e.ValidationLoss, e.ValidationAccuracy)).ToArray();
         string description = string.Create(inv,
-            $"{spec.Cell.ToString().ToLowerInvariant()} embed {spec.EmbeddingSize} hidden {spec.HiddenSize} layers {spec.Layers}{(spec.Bidirectional ? " bidirectional" : "")} pooling {spec.Pooling.ToString().ToLowerInvariant()}, {spec.Training.Epochs} epochs, batch {spec.Training.BatchSize}, lr {spec.Training.LearningRate}");
+            $"{Kit.Models.ModelDescription.Of(run.Config)}, {spec.Training.Epochs} epochs, batch {spec.Training.BatchSize}, lr {spec.Training.LearningRate}");
         var timing = new RunTiming(run.History.Epochs.Sum(e => e.Seconds), clock.Elapsed.TotalSeconds,
             spec.Training.Threads > 0 ? spec.Training.Threads : Environment.ProcessorCount);
         return Score(key, config, description, split, run.TestProbabilities, run.Model.ParameterCount(), epochs, run.History.BestEpoch, timing);

@@ -17,11 +17,18 @@ public sealed record SweepConfig
     public static readonly IReadOnlyList<(string Key, string Accepts)> Keys =
     [
         ("cell", "gru, lstm or rnn"),
+        ("encoder", "gru, lstm, rnn, cnn or transformer"),
         ("embed", "a positive integer (embedding size)"),
         ("hidden", "a positive integer (hidden size)"),
         ("layers", "a positive integer"),
         ("bidirectional", "true or false"),
         ("pooling", "last, mean, max or attention"),
+        ("heads", "a positive integer (Transformer attention heads, dividing hidden)"),
+        ("positions", "sinusoidal or learned (Transformer positions)"),
+        ("dropout", "a rate in [0, 1) on embeddings, between layers and before the head"),
+        ("embed-dropout", "a rate in [0, 1) on the embeddings"),
+        ("layer-dropout", "a rate in [0, 1) between layers"),
+        ("head-dropout", "a rate in [0, 1) before the head"),
         ("epochs", "a positive integer"),
         ("batch", "a positive integer (batch size)"),
         ("lr", "a positive number (learning rate)"),
@@ -71,6 +78,18 @@ public sealed record SweepConfig
     static RunSpec Apply(RunSpec s, string key, string value) => key switch
     {
         "cell" => s with { Cell = value switch { "gru" => CellKind.Gru, "lstm" => CellKind.Lstm, "rnn" => CellKind.Rnn, _ => throw new FormatException() } },
+        "encoder" => value switch
+        {
+            "cnn" => s with { Encoder = EncoderKind.Convolution },
+            "transformer" => s with { Encoder = EncoderKind.Transformer },
+            _ => Apply(s, "cell", value) with { Encoder = EncoderKind.Recurrent },
+        },
+        "heads" => s with { Heads = Positive(value) },
+        "positions" => s with { Positions = value switch { "sinusoidal" => PositionKind.Sinusoidal, "learned" => PositionKind.Learned, _ => throw new FormatException() } },
+        "dropout" => s with { Dropout = Rate(value) },
+        "embed-dropout" => s with { EmbeddingDropout = Rate(value) },
+        "layer-dropout" => s with { LayerDropout = Rate(value) },
+        "head-dropout" => s with { HeadDropout = Rate(value) },
         "embed" => s with { EmbeddingSize = Positive(value) },
         "hidden" => s with { HiddenSize = Positive(value) },
         "layers" => s with { Layers = Positive(value) },
@@ -90,6 +109,9 @@ public sealed record SweepConfig
     };
 
     static int Positive(string v) => int.TryParse(v, NumberStyles.None, CultureInfo.InvariantCulture, out int n) && n > 0 ? n : throw new FormatException();
+
+    internal static double Rate(string v) =>
+        double.TryParse(v, NumberStyles.Float, CultureInfo.InvariantCulture, out double x) && x >= 0 && x < 1 ? x : throw new FormatException();
 
     static double PositiveNumber(string v) =>
         double.TryParse(v, NumberStyles.Float, CultureInfo.InvariantCulture, out double x) && x > 0 && double.IsFinite(x) ? x : throw new FormatException();

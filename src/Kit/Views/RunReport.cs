@@ -23,7 +23,7 @@ public static class RunReport
             new[] { "data", $"{Path.GetFileName(s.DataPath)} — {run.Rows.Length} rows used of {run.Table.Count}, {run.Labels.Count} classes" },
             new[] { "split", $"{(s.GroupAware && run.Table.Groups is not null ? "group-aware" : "stratified")} holdout {s.TrainFraction:0.##}/{s.ValidationFraction:0.##}/{s.TestFraction:0.##}: {run.Split.Train.Length}/{run.Split.Validation.Length}/{run.Split.Test.Length} rows (seed {s.SplitSeed})" },
             new[] { "tokens", $"{run.Tokenizer.Name}, vocabulary {run.Vocabulary.Count} ids from the training part only (pad = 0, unknown = 1), max length {s.MaxLength}" },
-            new[] { "model", $"{s.Cell} embedding {s.EmbeddingSize}, hidden {s.HiddenSize}, layers {s.Layers}{(s.Bidirectional ? ", bidirectional" : "")}, pooling {s.Pooling}; {run.Model.ParameterCount().ToString("N0", inv)} parameters" },
+            new[] { "model", $"{Kit.Models.ModelDescription.Of(run.Config)}; {run.Model.ParameterCount().ToString("N0", inv)} parameters" },
             new[] { "training", $"{run.History.Epochs.Count} epochs, batch {s.Training.BatchSize}, Adam lr {s.Training.LearningRate.ToString(inv)}, seed {s.Training.Seed}; best epoch {run.History.BestEpoch}{(run.History.StopReason is null ? "" : "; " + run.History.StopReason)}" },
             new[] { "time", $"{run.Elapsed.TotalSeconds.ToString("F1", inv)} s to train and score, {d.Elapsed.TotalSeconds.ToString("F1", inv)} s for the diagnostics, on {Environment.ProcessorCount} cores" },
         }, numericRight: false);

@@ -74,7 +74,7 @@ public sealed class SweepTests : IDisposable
         }
         var gru = records.Where(r => !r.Baseline).ToArray();
         Assert.All(gru, r => Assert.Single(r.Epochs));
-        Assert.All(gru, r => Assert.StartsWith("gru embed 8 hidden 16 layers 1 pooling last, 1 epochs", r.Model));
+        Assert.All(gru, r => Assert.StartsWith("GRU hidden 16, layers 1, embedding 8, pooling last, no dropout, 1 epochs", r.Model));
         Assert.All(records, r => Assert.Equal(r.TestRows.Length, r.ByLength.Sum(b => b.Count)));
         Assert.All(records, r => Assert.Equal(r.TestRows.Length, r.Reliability.Sum(b => b.Count)));
         Assert.All(records, r => Assert.Equal(r.Accuracy, r.Correct().Count(c => c) / (double)r.TestRows.Length, 12));
