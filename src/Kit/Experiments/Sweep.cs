@@ -73,12 +73,11 @@ public sealed class Sweep
         var inv = CultureInfo.InvariantCulture;
         if (config.IsBaseline)
         {
-            var nb = NgramNaiveBayes.Fit(split.Train.Select(p => _tokens[p]).ToArray(), split.Train.Select(p => _labels[p]).ToArray(),
-                Labels.Count, Plan.NgramMin, Plan.NgramMax, Plan.NgramAlpha);
+            var baseline = NgramBaseline.Fit(config.BaselineKind, split.Train.Select(p => _tokens[p]).ToArray(), split.Train.Select(p => _labels[p]).ToArray(),
+                Labels.Count, Plan.BaselineNgrams, Plan.NaiveBayesSmoothing, Plan.LinearL2);
             double trainSeconds = clock.Elapsed.TotalSeconds;
-            var probs = split.Test.Select(p => nb.Probabilities(_tokens[p])).ToArray();
-            string model = string.Create(inv, $"multinomial naive Bayes, {Plan.Base.CreateTokenizer().Name} {Plan.NgramMin}–{Plan.NgramMax}-grams, α = {Plan.NgramAlpha}");
-            return Score(key, config, model, split, probs, nb.ParameterCount, [], 0, new RunTiming(trainSeconds, clock.Elapsed.TotalSeconds, 1));
+            var probs = baseline.Probabilities(split.Test.Select(p => _tokens[p]).ToArray());
+            return Score(key, config, baseline.Description, split, probs, baseline.ParameterCount, [], 0, new RunTiming(trainSeconds, clock.Elapsed.TotalSeconds, 1));
         }
         var spec = config.Apply(Plan.Base);
         spec = spec with { Training = spec.Training with { Seed = key.Seed } };
