@@ -49,11 +49,12 @@ internal static class TrainCommand
         var seed = new Option<ulong>("--seed") { Description = "Training seed (weights, batches, dropout)", DefaultValueFactory = _ => 1 };
         var threads = new Option<int>("--threads") { Description = "Intra-op threads (0 = one per core)", DefaultValueFactory = _ => 0 };
         var outDir = new Option<string>("--out") { Description = "Output folder", DefaultValueFactory = _ => "train-out" };
+        var baselines = new Option<bool>("--baselines") { Description = "Also fit the n-gram naive Bayes and logistic regression baselines on the same split and save them for kit score" };
         var resume = new Option<bool>("--resume") { Description = "Continue from DIR/checkpoints after an interruption" };
         var command = new Command("train", "Train one recurrent classifier and write its bundle, metrics, timings and report.")
         {
             data, text, label, group, tokenizer, maxLength, cell, embed, hidden, layers, bidirectional, pooling, epochs, batch, lr,
-            encoder, dropout, optimizer, schedule, weightDecay, clip, classWeights, smoothing, monitor, patience, seed, threads, outDir, resume,
+            encoder, dropout, optimizer, schedule, weightDecay, clip, classWeights, smoothing, monitor, patience, seed, threads, outDir, resume, baselines,
         };
         command.SetAction(parse =>
         {
@@ -102,7 +103,8 @@ internal static class TrainCommand
                 Training = training,
             };
             if (parse.GetValue(encoder) is string family) spec = SweepConfig.Of(("encoder", family)).Apply(spec);
-            return CliErrors.Guard(() => Guarded(() => Run(spec, dir)));
+            bool withBaselines = parse.GetValue(baselines);
+            return CliErrors.Guard(() => Guarded(() => Run(spec, dir, withBaselines)));
         });
         return command;
     }
@@ -128,7 +130,7 @@ internal static class TrainCommand
         }
     }
 
-    static int Run(RunSpec spec, string dir)
+    static int Run(RunSpec spec, string dir, bool withBaselines = false)
     {
         spec.Training.Validate();
         if (!(spec.Dropout >= 0 && spec.Dropout < 1)) throw new ArgumentException($"--dropout {spec.Dropout}: a rate in [0, 1)");
@@ -176,6 +178,9 @@ internal static class TrainCommand
         ReportWriter.Write(report, $"{spec.EncoderName} classifier — {Path.GetFileName(spec.DataPath)}",
             $"Test split: accuracy {run.TestMetrics.Accuracy.ToString("P1", CultureInfo.InvariantCulture)}, macro F1 {run.TestMetrics.MacroF1.ToString("F3", CultureInfo.InvariantCulture)}.",
             RunReport.Views(run, diagnostics));
+        if (withBaselines)
+            foreach (var b in BaselineFiles.Write(run, dir))
+                Console.WriteLine(string.Create(CultureInfo.InvariantCulture, $"baseline {b.Description}: test accuracy {b.TestAccuracy:P2}; wrote {b.Path}"));
         if (run.History.StopReason is string why) Console.Error.WriteLine(why);
         Console.WriteLine(string.Create(CultureInfo.InvariantCulture,
             $"best epoch {run.History.BestEpoch}; test accuracy {run.TestMetrics.Accuracy:P2}, macro F1 {run.TestMetrics.MacroF1:F3}"));

@@ -64,11 +64,12 @@ public class SweepGridTests
             Configs = SweepGrid.Parse("cell=gru,rnn"), Seeds = 2, Folds = 3,
         }.Validate();
         var runs = plan.Runs();
-        Assert.Equal(2 * 2 * 3 + 3, runs.Count);
+        Assert.Equal(2 * 2 * 3 + 2 * 3, runs.Count);
         Assert.Equal("cell=gru|seed=10|fold=1/3", runs[0].Id);
         Assert.Equal("cell=gru|seed=10|fold=2/3", runs[1].Id);
         Assert.Equal("cell=gru|seed=11|fold=1/3", runs[3].Id);
-        Assert.Equal(["naive-bayes|seed=10|fold=1/3", "naive-bayes|seed=10|fold=2/3", "naive-bayes|seed=10|fold=3/3"], runs.TakeLast(3).Select(r => r.Id));
+        Assert.Equal(["naive-bayes|seed=10|fold=1/3", "naive-bayes|seed=10|fold=2/3", "naive-bayes|seed=10|fold=3/3",
+            "logistic-regression|seed=10|fold=1/3", "logistic-regression|seed=10|fold=2/3", "logistic-regression|seed=10|fold=3/3"], runs.TakeLast(6).Select(r => r.Id));
         Assert.Equal(runs.Count, runs.Select(r => r.Id).Distinct().Count());
         Assert.Throws<ArgumentException>(() => (plan with { Folds = 1 }).Validate());
         Assert.Throws<ArgumentException>(() => (plan with { Seeds = 0 }).Validate());

@@ -1,3 +1,5 @@
+using System.Numerics;
+
 namespace Kit.Experiments;
 
 /// <summary>
@@ -50,8 +52,8 @@ public sealed class NgramLogisticRegression
             if (labels[i] < 0 || labels[i] >= classes) throw new ArgumentOutOfRangeException(nameof(labels), $"labels[{i}] = {labels[i]} is outside 0..{classes - 1}");
 
         int k = classes, f = x.Width;
-        long size = (long)f * k + k;
-        if (size > Array.MaxLength) throw new ArgumentException($"{f} features × {k} classes is too many weights");
+        if ((long)f * k + k > Array.MaxLength) throw new ArgumentException($"{f} features × {k} classes is too many weights");
+        int size = f * k + k;
         var theta = new double[size];
         var grad = new double[size];
         double value = Objective(x, labels, k, l2, theta, grad);
@@ -76,7 +78,7 @@ public sealed class NgramLogisticRegression
             {
                 // Not a descent direction (curvature information went stale): restart from steepest descent.
                 s.Clear(); y.Clear(); rho.Clear();
-                for (long i = 0; i < size; i++) direction[i] = -grad[i];
+                for (int i = 0; i < size; i++) direction[i] = -grad[i];
                 slope = Dot(grad, direction);
             }
             double step = iteration == 0 && s.Count == 0 ? 1 / Math.Max(1, Math.Sqrt(-slope)) : 1;
@@ -84,21 +86,21 @@ public sealed class NgramLogisticRegression
             bool accepted = false;
             for (int tries = 0; tries < 40; tries++)
             {
-                for (long i = 0; i < size; i++) nextTheta[i] = theta[i] + step * direction[i];
+                Array.Copy(theta, nextTheta, size);
+                Axpy(step, direction, nextTheta);
                 nextValue = Objective(x, labels, k, l2, nextTheta, nextGrad);
                 if (nextValue <= value + 1e-4 * step * slope) { accepted = true; break; }
                 step *= 0.5;
             }
             iteration++;
             if (!accepted) break;
-            var sk = new double[size]; var yk = new double[size];
-            for (long i = 0; i < size; i++) { sk[i] = nextTheta[i] - theta[i]; yk[i] = nextGrad[i] - grad[i]; }
+            // The oldest pair's arrays are reused once memory is full: no large allocation per iteration.
+            double[] sk, yk;
+            if (s.Count == memory) { sk = s[0]; yk = y[0]; s.RemoveAt(0); y.RemoveAt(0); rho.RemoveAt(0); }
+            else { sk = new double[size]; yk = new double[size]; }
+            for (int i = 0; i < size; i++) { sk[i] = nextTheta[i] - theta[i]; yk[i] = nextGrad[i] - grad[i]; }
             double sy = Dot(sk, yk);
-            if (sy > 1e-12)
-            {
-                if (s.Count == memory) { s.RemoveAt(0); y.RemoveAt(0); rho.RemoveAt(0); }
-                s.Add(sk); y.Add(yk); rho.Add(1 / sy);
-            }
+            if (sy > 1e-12) { s.Add(sk); y.Add(yk); rho.Add(1 / sy); }
             (theta, nextTheta) = (nextTheta, theta);
             (grad, nextGrad) = (nextGrad, grad);
             double previous = value;
@@ -181,8 +183,8 @@ public sealed class NgramLogisticRegression
 
     static void TwoLoop(double[] grad, List<double[]> s, List<double[]> y, List<double> rho, double[] direction)
     {
-        long size = grad.LongLength;
-        for (long i = 0; i < size; i++) direction[i] = -grad[i];
+        int size = grad.Length;
+        for (int i = 0; i < size; i++) direction[i] = -grad[i];
         int m = s.Count;
         var alpha = new double[m];
         for (int j = m - 1; j >= 0; j--)
@@ -193,7 +195,7 @@ public sealed class NgramLogisticRegression
         if (m > 0)
         {
             double gamma = Dot(s[m - 1], y[m - 1]) / Dot(y[m - 1], y[m - 1]);
-            for (long i = 0; i < size; i++) direction[i] *= gamma;
+            for (int i = 0; i < size; i++) direction[i] *= gamma;
         }
         for (int j = 0; j < m; j++)
         {
@@ -202,16 +204,23 @@ public sealed class NgramLogisticRegression
         }
     }
 
+    // Vector<double> loops: the solver's time outside the objective is these passes over every weight.
     static double Dot(double[] a, double[] b)
     {
-        double sum = 0;
-        for (long i = 0; i < a.LongLength; i++) sum += a[i] * b[i];
+        int n = a.Length, w = Vector<double>.Count, i = 0;
+        var acc = Vector<double>.Zero;
+        for (; i <= n - w; i += w) acc += new Vector<double>(a, i) * new Vector<double>(b, i);
+        double sum = Vector.Sum(acc);
+        for (; i < n; i++) sum += a[i] * b[i];
         return sum;
     }
 
     static void Axpy(double a, double[] x, double[] y)
     {
-        for (long i = 0; i < x.LongLength; i++) y[i] += a * x[i];
+        int n = x.Length, w = Vector<double>.Count, i = 0;
+        var va = new Vector<double>(a);
+        for (; i <= n - w; i += w) (new Vector<double>(y, i) + va * new Vector<double>(x, i)).CopyTo(y, i);
+        for (; i < n; i++) y[i] += a * x[i];
     }
 
     static double MaxAbs(double[] a)
