@@ -15,7 +15,7 @@ internal static class ScoreCommand
 {
     public static Command Build()
     {
-        var model = new Argument<string>("MODEL") { Description = "A model bundle written by kit train" };
+        var model = new Argument<string>("MODEL") { Description = "A model bundle written by kit train, or an n-gram baseline file" };
         var data = new Argument<string>("DATA") { Description = "Rows to score (.csv, .tsv, .jsonl)" };
         var outFile = new Option<string>("--out") { Description = "CSV file to write", Required = true };
         var text = new Option<string>("--text") { Description = "Text column", DefaultValueFactory = _ => "text" };
@@ -28,13 +28,25 @@ internal static class ScoreCommand
 
     static int Run(string modelPath, string dataPath, string outPath, string textColumn, string? labelColumn)
     {
-        var bundle = ModelBundle.Load(modelPath);
+        // A neural bundle or an n-gram baseline file: both give the same scores, so the output is the same.
+        LabelMap labels;
+        Func<IReadOnlyList<string>, TextScores> score;
+        if (File.Exists(modelPath) && Kit.Experiments.NgramModelFile.IsOne(modelPath))
+        {
+            var baseline = Kit.Experiments.NgramModelFile.Load(modelPath);
+            (labels, score) = (baseline.Labels, baseline.Score);
+        }
+        else
+        {
+            var bundle = ModelBundle.Load(modelPath);
+            (labels, score) = (bundle.Labels, texts => TextScorer.Score(bundle, texts));
+        }
         // Without a label column the text column stands in for it; those values are never used.
         var table = TableReader.Read(dataPath, new ColumnSpec(textColumn, labelColumn ?? textColumn), RowPolicy.Skip);
         if (!table.SkipReport.IsEmpty)
             Console.Error.WriteLine($"{dataPath}: {table.SkipReport} — these rows are not in the output");
-        var scores = TextScorer.Score(bundle, table.Texts);
-        AtomicFile.WriteAllText(outPath, Csv(bundle, table, scores, labelColumn is not null));
+        var scores = score(table.Texts);
+        AtomicFile.WriteAllText(outPath, Csv(labels, table, scores, labelColumn is not null));
         foreach (var group in scores.Flags.Select((f, i) => (f, i)).Where(p => p.f != ScoreFlag.None).GroupBy(p => p.f))
             Console.Error.WriteLine($"{dataPath}: {group.Count()} row(s) flagged {FlagText(group.Key)} (first at line {string.Join(", ", group.Take(5).Select(p => table.Lines[p.i]))}); no prediction given");
         Console.WriteLine($"scored {scores.Count - scores.FlaggedCount} of {scores.Count} rows; wrote {outPath}");
@@ -48,25 +60,25 @@ internal static class ScoreCommand
         _ => "",
     };
 
-    internal static string Csv(ModelBundle bundle, LabelledTable table, TextScores scores, bool withLabel)
+    internal static string Csv(LabelMap labels, LabelledTable table, TextScores scores, bool withLabel)
     {
         var inv = CultureInfo.InvariantCulture;
         var sb = new StringBuilder();
         var header = new List<string> { "line" };
         if (withLabel) header.Add("label");
         header.AddRange(new[] { "predicted", "flag", "tokens", "truncated" });
-        header.AddRange(bundle.Labels.Names.Select(n => "p_" + n));
+        header.AddRange(labels.Names.Select(n => "p_" + n));
         sb.AppendLine(string.Join(',', header.Select(Quote)));
         for (int i = 0; i < scores.Count; i++)
         {
             var cells = new List<string> { table.Lines[i].ToString(inv) };
             if (withLabel) cells.Add(Quote(table.Labels[i]));
-            cells.Add(scores.Predicted[i] >= 0 ? Quote(bundle.Labels.Names[scores.Predicted[i]]) : "");
+            cells.Add(scores.Predicted[i] >= 0 ? Quote(labels.Names[scores.Predicted[i]]) : "");
             cells.Add(FlagText(scores.Flags[i]));
             cells.Add(scores.Tokens[i].ToString(inv));
             cells.Add(scores.Truncated[i] ? "true" : "false");
             var p = scores.Probabilities[i];
-            for (int k = 0; k < bundle.Labels.Count; k++) cells.Add(p is null ? "" : p[k].ToString("R", inv));
+            for (int k = 0; k < labels.Count; k++) cells.Add(p is null ? "" : p[k].ToString("R", inv));
             sb.AppendLine(string.Join(',', cells));
         }
         return sb.ToString();

@@ -6,7 +6,7 @@ using static TorchSharp.torch;
 namespace Kit.Models;
 
 /// <summary>
-/// Embedding → recurrent encoder → pooling → head. <c>forward(tokens, lengths)</c> takes right-padded int64
+/// Embedding → encoder (recurrent, convolutional or Transformer) → pooling → head. <c>forward(tokens, lengths)</c> takes right-padded int64
 /// token ids [B, T] and int64 lengths [B] and returns logits [B, Classes]; <see cref="Logits"/> also takes
 /// left-padded batches. The embedding row of the pad id is fixed at zero.
 /// </summary>
@@ -14,7 +14,8 @@ public sealed class SequenceClassifier : nn.Module<Tensor, Tensor, Tensor>
 {
     readonly Embedding embedding;
     readonly Dropout embedding_dropout;
-    readonly RecurrentEncoder encoder;
+    // One field name for every encoder family, so the weights keep the "encoder." prefix bundles already use.
+    readonly nn.Module<Tensor, Tensor, Tensor> encoder;
     readonly SequencePooling pooling;
     readonly Dropout head_dropout;
     readonly Sequential head;
@@ -28,7 +29,12 @@ public sealed class SequenceClassifier : nn.Module<Tensor, Tensor, Tensor>
         var device = ComputeDevice.Resolve(config.Device);
         embedding = nn.Embedding(config.VocabularySize, config.EmbeddingSize, padding_idx: BatchBuilder.PadId);
         embedding_dropout = nn.Dropout(config.EmbeddingDropout);
-        encoder = new RecurrentEncoder(config);
+        encoder = config.Encoder switch
+        {
+            EncoderKind.Convolution => new ConvolutionEncoder(config),
+            EncoderKind.Transformer => new TransformerEncoder(config),
+            _ => new RecurrentEncoder(config),
+        };
         pooling = new SequencePooling(config);
         head_dropout = nn.Dropout(config.HeadDropout);
         head = config.Head == HeadKind.Linear
@@ -41,7 +47,12 @@ public sealed class SequenceClassifier : nn.Module<Tensor, Tensor, Tensor>
         if (device.type != DeviceType.CPU) this.to(device);
     }
 
-    public RecurrentEncoder Encoder => encoder;
+    /// <summary>The recurrent encoder; throws for the other families (see <see cref="SequenceEncoder"/>).</summary>
+    public RecurrentEncoder Encoder => encoder as RecurrentEncoder
+        ?? throw new InvalidOperationException($"this classifier's encoder is {Config.Encoder}, not recurrent");
+
+    /// <summary>The encoder whatever its family: embedded batch [B, T, E] and lengths → per-step outputs [B, T, PooledSize].</summary>
+    public nn.Module<Tensor, Tensor, Tensor> SequenceEncoder => encoder;
     public SequencePooling Pooling => pooling;
 
     public override Tensor forward(Tensor tokens, Tensor lengths) => Logits(tokens, lengths, PadSide.Right);

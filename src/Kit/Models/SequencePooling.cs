@@ -8,7 +8,7 @@ namespace Kit.Models;
 /// <summary>
 /// Per-step outputs [B, T, H × directions] of right-padded rows → one vector [B, H × directions] per row. Pad
 /// steps are zeroed first and excluded by the mask, so whatever a pad step holds cannot reach the result.
-/// Last: the forward half at step length−1 and the backward half at step 0 (where the backward pass ends).
+/// Last: the forward half (the whole vector for one-direction encoders) at step length−1 and the backward half at step 0 (where the backward pass ends).
 /// Attention: additive scoring v·tanh(W o_t + b) (Bahdanau, Cho and Bengio 2015), softmax over valid steps.
 /// </summary>
 public sealed class SequencePooling : nn.Module<Tensor, Tensor, Tensor>
@@ -22,8 +22,8 @@ public sealed class SequencePooling : nn.Module<Tensor, Tensor, Tensor>
     public SequencePooling(ClassifierConfig config) : base(nameof(SequencePooling))
     {
         _kind = config.Pooling;
-        _hidden = config.HiddenSize;
         _directions = config.Directions;
+        _hidden = config.PooledSize / _directions;
         if (_kind == PoolingKind.Attention)
         {
             attention_proj = nn.Linear(config.PooledSize, config.HiddenSize);

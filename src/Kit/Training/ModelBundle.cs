@@ -69,7 +69,7 @@ public sealed class ModelBundle
     public static ModelBundle FromBytes(byte[] bytes, string source)
     {
         var (m, sections) = KitContainer.Read(bytes, source, Magic, What,
-            new Dictionary<string, string> { [TrainingCheckpoint.Magic] = "kit training checkpoint" });
+            new Dictionary<string, string> { [TrainingCheckpoint.Magic] = "kit training checkpoint", ["KITNGRAM"] = "kit n-gram baseline" });
         if ((string?)m["kind"] != "kit-model") throw new BundleError(source, "manifest kind is not 'kit-model'");
         try
         {

@@ -15,9 +15,11 @@ public static class ComparisonViews
 
     static string Colour(ComparisonRecord c, ConfigSummary s)
     {
-        if (s.Baseline) return Theme.Palette[^1];
+        // The baselines take the palette's last colours (one each), the candidates cycle through the rest.
+        var baselines = c.Configs.Where(x => x.Baseline).Select(x => x.Config).Order(StringComparer.Ordinal).ToList();
+        if (s.Baseline) return Theme.Palette[^(1 + baselines.IndexOf(s.Config) % Theme.Palette.Length)];
         int i = c.Configs.Where(x => !x.Baseline).ToList().IndexOf(s);
-        return Theme.Palette[i % (Theme.Palette.Length - 1)];
+        return Theme.Palette[i % Math.Max(1, Theme.Palette.Length - baselines.Count)];
     }
 
     static string Interval(SummaryStatistic s, Func<double, string> f) =>

@@ -71,7 +71,7 @@ public static class RecordViews
         {
             new[] { "data", $"{Path.GetFileName(run.Table.SourcePath)}: {run.Data.SplitDescription}" },
             new[] { "parts", $"train {f.Split.Train.Length.ToString("N0", Inv)} · validation {f.Split.Validation.Length.ToString("N0", Inv)} · test {f.Split.Test.Length.ToString("N0", Inv)}" },
-            new[] { "model", $"{run.Config.Cell} embedding {run.Config.EmbeddingSize}, hidden {run.Config.HiddenSize}, layers {run.Config.Layers}{(run.Config.Bidirectional ? ", bidirectional" : "")}, pooling {run.Config.Pooling}; {run.Model.ParameterCount().ToString("N0", Inv)} parameters" },
+            new[] { "model", $"{Kit.Models.ModelDescription.Of(run.Config)}; {run.Model.ParameterCount().ToString("N0", Inv)} parameters" },
             new[] { "training", $"{run.History.Epochs.Count} epochs, best epoch {run.History.BestEpoch}, {run.Elapsed.TotalSeconds.ToString("F1", Inv)} s" },
             new[] { "test accuracy", $"{Html.Pct(m.Accuracy)} (95 % Wilson interval {Html.Pct(low)}–{Html.Pct(high)}, {m.Count.ToString("N0", Inv)} rows)" },
             new[] { "test macro F1", Html.Num(m.MacroF1) },

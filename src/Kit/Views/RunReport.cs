@@ -63,7 +63,7 @@ public sealed class RunReport
         ArgumentNullException.ThrowIfNull(run);
         var d = diagnostics ?? RunDiagnostics.Compute(run, run.Spec.Diagnostics, stages);
         var inv = CultureInfo.InvariantCulture;
-        title ??= $"{run.Config.Cell.ToString().ToUpperInvariant()} classifier — {Path.GetFileName(run.Table.SourcePath)}";
+        title ??= $"{run.Spec.EncoderName.ToUpperInvariant()} classifier — {Path.GetFileName(run.Table.SourcePath)}";
         subtitle ??= $"Test part: accuracy {run.TestMetrics.Accuracy.ToString("P1", inv)}, macro F1 {run.TestMetrics.MacroF1.ToString("F3", inv)}.";
 
         var sections = new List<ReportSection>
@@ -115,7 +115,7 @@ public sealed class RunReport
             new[] { "data", $"{Path.GetFileName(run.Table.SourcePath)} — {run.Rows.Length} rows used of {run.Table.Count}, {run.Labels.Count} classes" },
             new[] { "split", $"{run.Data.SplitDescription}: {f.Split.Train.Length}/{f.Split.Validation.Length}/{f.Split.Test.Length} rows" },
             new[] { "tokens", $"{run.Tokenizer.Name}, vocabulary {run.Vocabulary.Count} ids from the training part only (pad = 0, unknown = 1), max length {run.Data.Options.MaxLength}" },
-            new[] { "model", $"{s.Cell} embedding {s.EmbeddingSize}, hidden {s.HiddenSize}, layers {s.Layers}{(s.Bidirectional ? ", bidirectional" : "")}, pooling {s.Pooling}; {run.Model.ParameterCount().ToString("N0", inv)} parameters" },
+            new[] { "model", $"{Kit.Models.ModelDescription.Of(run.Config)}; {run.Model.ParameterCount().ToString("N0", inv)} parameters" },
             new[] { "training", $"{run.History.Epochs.Count} epochs, batch {t.BatchSize}, {Optimiser(t)}, schedule {t.Schedule.Kind}, seed {t.Seed}; best epoch {run.History.BestEpoch}{(run.History.StopReason is null ? "" : "; " + run.History.StopReason)}" },
             new[] { "time", $"{run.Elapsed.TotalSeconds.ToString("F1", inv)} s to train and score, {d.Elapsed.TotalSeconds.ToString("F1", inv)} s for the diagnostics, on {Environment.ProcessorCount} cores" },
         }, numericRight: false);

@@ -32,17 +32,17 @@ public sealed class SweepCliTests : IDisposable
             p.WaitForExit();
         }
         var before = ResultsStore.Read(store);
-        Assert.InRange(before.Records.Count, 1, 4);
+        Assert.InRange(before.Records.Count, 1, 5);
         var linesBefore = before.Records.ToDictionary(r => r.Id, r => r.ToJsonLine());
 
         var (code, stdout, stderr2) = KitCli.Run(args);
         Assert.True(code == 0, $"rerun failed ({code}): {stderr2}");
-        Assert.Contains($"{5 - before.Records.Count} run(s) finished now, {before.Records.Count} already in the store", stdout);
+        Assert.Contains($"{6 - before.Records.Count} run(s) finished now, {before.Records.Count} already in the store", stdout);
         var after = ResultsStore.Read(store);
         var ids = after.Records.Select(r => r.Id).ToArray();
-        Assert.Equal(5, ids.Length);
+        Assert.Equal(6, ids.Length);
         Assert.Equal(ids.Length, ids.Distinct().Count());
-        string[] expected = ["cell=gru|seed=1|fold=1/1", "cell=gru|seed=2|fold=1/1", "cell=rnn|seed=1|fold=1/1", "cell=rnn|seed=2|fold=1/1", "naive-bayes|seed=1|fold=1/1"];
+        string[] expected = ["cell=gru|seed=1|fold=1/1", "cell=gru|seed=2|fold=1/1", "cell=rnn|seed=1|fold=1/1", "cell=rnn|seed=2|fold=1/1", "logistic-regression|seed=1|fold=1/1", "naive-bayes|seed=1|fold=1/1"];
         Assert.Equal(expected, ids.Order(StringComparer.Ordinal));
         foreach (var (id, line) in linesBefore)
             Assert.Equal(line, after.Records.Single(r => r.Id == id).ToJsonLine()); // kept byte for byte
@@ -68,7 +68,7 @@ public sealed class SweepCliTests : IDisposable
         Assert.Equal(2, Directory.GetFiles(sharded, "runs.shard-*.jsonl").Length);
         var (mergeCode, mergeOut, mergeErr) = KitCli.Run(["merge", sharded]);
         Assert.True(mergeCode == 0, mergeErr);
-        Assert.Contains("3 run(s)", mergeOut);
+        Assert.Contains("4 run(s)", mergeOut);
 
         // The same sweep unsharded, through two worker processes of one engine thread each.
         var (code, _, err) = KitCli.Run(KitCli.TinySweep(whole, grid, 1, "--workers", "2"));
@@ -76,7 +76,7 @@ public sealed class SweepCliTests : IDisposable
 
         var a = ResultsStore.Read(whole).Records.ToDictionary(r => r.Id);
         var b = ResultsStore.Read(sharded).Records.ToDictionary(r => r.Id);
-        Assert.Equal(3, a.Count);
+        Assert.Equal(4, a.Count);
         Assert.Equal(a.Keys.Order(), b.Keys.Order());
         foreach (var id in a.Keys) Assert.Equal(a[id].ResultsJson(), b[id].ResultsJson());
         Assert.All(b.Values, r => Assert.NotNull(r.Shard));

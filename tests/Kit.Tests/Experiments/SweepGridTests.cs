@@ -21,7 +21,30 @@ public class SweepGridTests
         Assert.Equal(["base"], SweepGrid.Parse("").Select(c => c.Name));
     }
 
+    [Fact]
+    public void Encoder_and_dropout_keys_set_the_family_and_rates_and_the_cell_key_keeps_working()
+    {
+        var configs = SweepGrid.Parse("encoder=gru,cnn,transformer; dropout=0,0.3");
+        Assert.Equal(6, configs.Count);
+        Assert.Equal("encoder=cnn;dropout=0.3", configs[3].Name);
+        var basis = new RunSpec { DataPath = "x.csv", Cell = CellKind.Lstm, HiddenSize = 16 };
+        var cnn = configs[3].Apply(basis).ModelConfig(30, 4);
+        Assert.Equal((EncoderKind.Convolution, 0.3, 0.3, 0.3), (cnn.Encoder, cnn.EmbeddingDropout, cnn.LayerDropout, cnn.HeadDropout));
+        var gru = configs[0].Apply(basis);
+        Assert.Equal((EncoderKind.Recurrent, CellKind.Gru), (gru.Encoder, gru.Cell));
+        // One rate set on its own wins over the shared one.
+        var mixed = SweepGrid.Parse("dropout=0.2; head-dropout=0.5; heads=2; positions=learned; encoder=transformer")[0].Apply(basis).ModelConfig(30, 4);
+        Assert.Equal((0.2, 0.2, 0.5, 2, PositionKind.Learned), (mixed.EmbeddingDropout, mixed.LayerDropout, mixed.HeadDropout, mixed.Heads, mixed.Positions));
+        var cell = SweepGrid.Parse("cell=rnn")[0].Apply(basis);
+        Assert.Equal((EncoderKind.Recurrent, CellKind.Rnn), (cell.Encoder, cell.Cell));
+        // Bidirectional applies to recurrent encoders; a grid crossing it with a CNN still builds.
+        var crossed = SweepGrid.Parse("encoder=cnn; bidirectional=true")[0].Apply(basis).ModelConfig(30, 4);
+        Assert.False(crossed.Bidirectional);
+    }
+
     [Theory]
+    [InlineData("dropout=1", "dropout=1: expected a rate in [0, 1)")]
+    [InlineData("encoder=tree", "encoder=tree: expected gru, lstm, rnn, cnn or transformer")]
     [InlineData("cell=gru,transformer", "cell=transformer: expected gru, lstm or rnn")]
     [InlineData("width=3", "unknown sweep setting 'width'")]
     [InlineData("embed=0", "embed=0: expected a positive integer")]
@@ -41,11 +64,12 @@ public class SweepGridTests
             Configs = SweepGrid.Parse("cell=gru,rnn"), Seeds = 2, Folds = 3,
         }.Validate();
         var runs = plan.Runs();
-        Assert.Equal(2 * 2 * 3 + 3, runs.Count);
+        Assert.Equal(2 * 2 * 3 + 2 * 3, runs.Count);
         Assert.Equal("cell=gru|seed=10|fold=1/3", runs[0].Id);
         Assert.Equal("cell=gru|seed=10|fold=2/3", runs[1].Id);
         Assert.Equal("cell=gru|seed=11|fold=1/3", runs[3].Id);
-        Assert.Equal(["naive-bayes|seed=10|fold=1/3", "naive-bayes|seed=10|fold=2/3", "naive-bayes|seed=10|fold=3/3"], runs.TakeLast(3).Select(r => r.Id));
+        Assert.Equal(["naive-bayes|seed=10|fold=1/3", "naive-bayes|seed=10|fold=2/3", "naive-bayes|seed=10|fold=3/3",
+            "logistic-regression|seed=10|fold=1/3", "logistic-regression|seed=10|fold=2/3", "logistic-regression|seed=10|fold=3/3"], runs.TakeLast(6).Select(r => r.Id));
         Assert.Equal(runs.Count, runs.Select(r => r.Id).Distinct().Count());
         Assert.Throws<ArgumentException>(() => (plan with { Folds = 1 }).Validate());
         Assert.Throws<ArgumentException>(() => (plan with { Seeds = 0 }).Validate());

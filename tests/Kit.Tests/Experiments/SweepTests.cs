@@ -40,13 +40,13 @@ public sealed class SweepTests : IDisposable
     {
         var sweep = Sweep.Prepare(TinyPlan("cell=gru,rnn", seeds: 2, folds: 2));
         var all = sweep.Plan.Runs();
-        Assert.Equal(10, all.Count);
+        Assert.Equal(12, all.Count); // 2 configs × 2 seeds × 2 folds, and 2 baselines × 2 folds
         // Task 8 of --array=7-9 is shard 2 of 3 (variables as the sbatch manual lists them).
         var env = new Dictionary<string, string> { ["SLURM_ARRAY_TASK_ID"] = "8", ["SLURM_ARRAY_TASK_MIN"] = "7", ["SLURM_ARRAY_TASK_MAX"] = "9" };
         var shard = Shard.Parse("auto", k => env.GetValueOrDefault(k));
         var recorder = new Recording(sweep);
         var outcome = SweepRunner.Run(sweep, _dir, shard, [recorder]);
-        Assert.Equal([all[1].Id, all[4].Id, all[7].Id], recorder.Asked);
+        Assert.Equal([all[1].Id, all[4].Id, all[7].Id, all[10].Id], recorder.Asked);
         Assert.Equal(Path.Combine(_dir, "runs.shard-2-of-3.jsonl"), outcome.StoreFile);
         Assert.All(ResultsStore.Read(_dir).Records, r => Assert.Equal("2/3", r.Shard));
         // Running the same shard again finds its share done.
@@ -65,7 +65,7 @@ public sealed class SweepTests : IDisposable
         Kit.Native.Engine.EnsureLoaded();
         var sweep = Sweep.Prepare(TinyPlan("cell=gru", seeds: 1, folds: 2));
         var outcome = SweepRunner.Run(sweep, _dir);
-        Assert.Equal(4, outcome.Ran);
+        Assert.Equal(6, outcome.Ran); // gru, naive Bayes and logistic regression, two folds each
         var records = ResultsStore.Read(_dir).Records;
         foreach (var config in records.GroupBy(r => r.Config))
         {
@@ -74,7 +74,7 @@ public sealed class SweepTests : IDisposable
         }
         var gru = records.Where(r => !r.Baseline).ToArray();
         Assert.All(gru, r => Assert.Single(r.Epochs));
-        Assert.All(gru, r => Assert.StartsWith("gru embed 8 hidden 16 layers 1 pooling last, 1 epochs", r.Model));
+        Assert.All(gru, r => Assert.StartsWith("GRU hidden 16, layers 1, embedding 8, pooling last, no dropout, 1 epochs", r.Model));
         Assert.All(records, r => Assert.Equal(r.TestRows.Length, r.ByLength.Sum(b => b.Count)));
         Assert.All(records, r => Assert.Equal(r.TestRows.Length, r.Reliability.Sum(b => b.Count)));
         Assert.All(records, r => Assert.Equal(r.Accuracy, r.Correct().Count(c => c) / (double)r.TestRows.Length, 12));
@@ -82,21 +82,25 @@ public sealed class SweepTests : IDisposable
         // The baseline executed again gives the same record, timings aside. (Neural runs are checked across
         // processes in SweepCliTests: in here, other test classes may train at the same time and share the
         // engine's global generator.)
-        var nb = records.First(r => r.Baseline);
-        Assert.Equal(nb.ResultsJson(), sweep.Execute(nb.Key).ResultsJson());
+        foreach (var baseline in records.Where(r => r.Baseline && r.Fold == 1))
+            Assert.Equal(baseline.ResultsJson(), sweep.Execute(baseline.Key).ResultsJson());
 
         var comparison = ComparisonRecord.Build(records);
-        Assert.Equal(2, comparison.Configs.Count);
-        var paired = Assert.Single(comparison.PairedTests);
-        Assert.Equal(sweep.Rows.Length, paired.Items);
-        Assert.Equal(2, paired.Folds);
-        var best = records.Where(r => r.Config == comparison.Best.Config).OrderBy(r => r.Fold).SelectMany(r => r.Correct()).ToArray();
-        var other = records.Where(r => r.Config != comparison.Best.Config).OrderBy(r => r.Fold).SelectMany(r => r.Correct()).ToArray();
-        Assert.Equal(McNemar.Test(best, other), paired.McNemar);
+        Assert.Equal(3, comparison.Configs.Count);
+        Assert.Equal(2, comparison.PairedTests.Count); // the best against each of the other two
+        foreach (var paired in comparison.PairedTests)
+        {
+            Assert.Equal(sweep.Rows.Length, paired.Items);
+            Assert.Equal(2, paired.Folds);
+            var best = records.Where(r => r.Config == paired.A).OrderBy(r => r.Fold).SelectMany(r => r.Correct()).ToArray();
+            var other = records.Where(r => r.Config == paired.B).OrderBy(r => r.Fold).SelectMany(r => r.Correct()).ToArray();
+            Assert.Equal(McNemar.Test(best, other), paired.McNemar);
+        }
         Assert.Equal(comparison.Configs.Count, comparison.ToDataFrame().Rows.Count);
 
         string html = ReportWriter.Render("t", "s", ComparisonReport.Views(comparison));
         Assert.Contains("data-kit-charts=\"5\"", html);
         Assert.Contains("naive-bayes", html);
+        Assert.Contains("logistic-regression", html);
     }
 }

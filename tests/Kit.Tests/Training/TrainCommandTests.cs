@@ -73,6 +73,35 @@ public sealed class TrainCommandTests : IDisposable
     }
 
     [Fact]
+    public void Train_with_baselines_and_a_cnn_encoder_saves_baseline_files_that_score_reads()
+    {
+        string data = Sample();
+        string dir = Path.Combine(_dir, "cnn");
+        Assert.Equal(0, Kit.Cli.Program.Main(new[]
+        {
+            "train", data, "--group", "group", "--epochs", "1", "--embed", "8", "--hidden", "8", "--encoder", "cnn", "--pooling", "max",
+            "--dropout", "0.2", "--baselines", "--out", dir,
+        }));
+        var config = JsonNode.Parse(File.ReadAllText(Path.Combine(dir, "metrics.json")))!["model"]!;
+        Assert.Equal(("Convolution", 0.2, 0.2, 0.2), ((string)config["Encoder"]!, (double)config["EmbeddingDropout"]!, (double)config["LayerDropout"]!, (double)config["HeadDropout"]!));
+        Assert.Contains("CNN widths 2/3/4/5", File.ReadAllText(Path.Combine(dir, "report.html")));
+        Assert.Contains("dropout 0.2", File.ReadAllText(Path.Combine(dir, "report.html")));
+        string toScore = Path.Combine(_dir, "score.csv");
+        File.WriteAllText(toScore, "text,label\nabc-7f3e.example,x\n\u00c6\u00d8\u00c5\u00c6,y\n");
+        foreach (var file in new[] { "naive-bayes.kitngram", "logistic-regression.kitngram" })
+        {
+            string output = Path.Combine(_dir, file + ".csv");
+            Assert.Equal(0, Kit.Cli.Program.Main(new[] { "score", Path.Combine(dir, file), toScore, "--out", output, "--label", "label" }));
+            var lines = File.ReadAllLines(output);
+            var cells = lines[1].Split(',');
+            var p = cells[6..].Select(c => double.Parse(c, CultureInfo.InvariantCulture)).ToArray();
+            Assert.Equal(1.0, p.Sum(), 9);
+            Assert.Equal("", cells[3]);
+            Assert.Equal("3,y,,all-unknown", string.Join(',', lines[2].Split(',')[..4]));
+        }
+    }
+
+    [Fact]
     public void A_corrupted_bundle_is_refused_with_exit_code_2()
     {
         string bundle = Path.Combine(_dir, "bad.kitmodel");

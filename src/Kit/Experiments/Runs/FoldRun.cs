@@ -20,8 +20,7 @@ public static class FoldRun
         var part = data.Fold(fold);
 
         Kit.Native.Engine.EnsureLoaded();
-        var config = new ClassifierConfig(part.Vocabulary.Count, data.Labels.Count, spec.Cell, spec.EmbeddingSize, spec.HiddenSize, spec.Layers,
-            spec.Bidirectional, Pooling: spec.Pooling);
+        var config = spec.ModelConfig(part.Vocabulary.Count, data.Labels.Count);
         TorchSharp.torch.manual_seed((long)(spec.Training.Seed & 0x7FFF_FFFF_FFFF_FFFF));
         var model = config.Build();
         var history = Trainer.Fit(model, part.Train, part.Validation.Count > 0 ? part.Validation : null, spec.Training, progress, cancel);

@@ -55,12 +55,30 @@ public static class RunSettings
         // Model. The first nine keep the order sweep config names have always been written in.
         Choice("cell", "Recurrent cell", SettingScope.Model, s => s.Cell, (s, v) => s with { Cell = v },
             ("gru", CellKind.Gru), ("lstm", CellKind.Lstm), ("rnn", CellKind.Rnn)),
+        new RunSetting("encoder", "Encoder family (a recurrent cell, a 1-D convolution or a Transformer); sets --cell for the recurrent ones",
+            "gru, lstm, rnn, cnn or transformer", SettingScope.Model, s => s.EncoderName,
+            (s, v) => v.ToLowerInvariant() switch
+            {
+                "cnn" => s with { Encoder = EncoderKind.Convolution },
+                "transformer" => s with { Encoder = EncoderKind.Transformer },
+                "gru" => s with { Encoder = EncoderKind.Recurrent, Cell = CellKind.Gru },
+                "lstm" => s with { Encoder = EncoderKind.Recurrent, Cell = CellKind.Lstm },
+                "rnn" => s with { Encoder = EncoderKind.Recurrent, Cell = CellKind.Rnn },
+                _ => throw new FormatException(),
+            }),
         Int("embed", "Embedding size", SettingScope.Model, s => s.EmbeddingSize, (s, v) => s with { EmbeddingSize = v }),
         Int("hidden", "Hidden size", SettingScope.Model, s => s.HiddenSize, (s, v) => s with { HiddenSize = v }),
         Int("layers", "Stacked layers", SettingScope.Model, s => s.Layers, (s, v) => s with { Layers = v }),
         Switch("bidirectional", "Read each sequence both ways", SettingScope.Model, s => s.Bidirectional, (s, v) => s with { Bidirectional = v }),
         Choice("pooling", "How the steps become one vector", SettingScope.Model, s => s.Pooling, (s, v) => s with { Pooling = v },
             ("last", PoolingKind.Last), ("mean", PoolingKind.Mean), ("max", PoolingKind.Max), ("attention", PoolingKind.Attention)),
+        Int("heads", "Attention heads of the Transformer encoder (must divide the hidden size)", SettingScope.Model, s => s.Heads, (s, v) => s with { Heads = v }),
+        Choice("positions", "Position encoding of the Transformer encoder", SettingScope.Model, s => s.Positions, (s, v) => s with { Positions = v },
+            ("sinusoidal", PositionKind.Sinusoidal), ("learned", PositionKind.Learned)),
+        Rate("dropout", "Dropout on the embeddings, between layers and before the head", s => s.Dropout, (s, v) => s with { Dropout = v }),
+        OptionalRate("embed-dropout", "Dropout on the embeddings alone (none = the dropout setting)", s => s.EmbeddingDropout, (s, v) => s with { EmbeddingDropout = v }),
+        OptionalRate("layer-dropout", "Dropout between layers alone (none = the dropout setting)", s => s.LayerDropout, (s, v) => s with { LayerDropout = v }),
+        OptionalRate("head-dropout", "Dropout before the head alone (none = the dropout setting)", s => s.HeadDropout, (s, v) => s with { HeadDropout = v }),
         Int("epochs", "Epochs", SettingScope.Training, s => s.Training.Epochs, (s, v) => s with { Training = s.Training with { Epochs = v } }),
         Int("batch", "Batch size", SettingScope.Training, s => s.Training.BatchSize, (s, v) => s with { Training = s.Training with { BatchSize = v } }),
         Number("lr", "Peak learning rate", SettingScope.Training, s => s.Training.LearningRate,
@@ -149,6 +167,15 @@ public static class RunSettings
             (s, v) => write(s, string.Equals(v, "none", StringComparison.OrdinalIgnoreCase) ? null : parse(v)));
 
     static string Either(string[] names) => names.Length == 1 ? names[0] : string.Join(", ", names[..^1]) + " or " + names[^1];
+
+    static RunSetting Rate(string key, string help, Func<RunSpec, double> read, Func<RunSpec, double, RunSpec> write) =>
+        new(key, help, "a rate in [0, 1)", SettingScope.Model, s => read(s).ToString("R", Inv), (s, v) => write(s, RateValue(v)));
+
+    static RunSetting OptionalRate(string key, string help, Func<RunSpec, double?> read, Func<RunSpec, double?, RunSpec> write) =>
+        Optional(key, help, "none or a rate in [0, 1)", SettingScope.Model, read, write, RateValue);
+
+    static double RateValue(string v) =>
+        double.TryParse(v, NumberStyles.Float, Inv, out double x) && x >= 0 && x < 1 ? x : throw new FormatException();
 
     static RunSpec WriteFractions(RunSpec s, string v)
     {

@@ -43,7 +43,7 @@ public sealed class RunOutcome
     public int[] TestLengths() => Split.Test.Select(p => Data.Lengths[p]).ToArray();
 
     public override string ToString() => FormattableString.Invariant(
-        $"{Config.Cell} run on {Path.GetFileName(Table.SourcePath)}: test accuracy {TestMetrics.Accuracy:P1}, macro F1 {TestMetrics.MacroF1:F3} ({Test.Count} rows), best epoch {History.BestEpoch}");
+        $"{Spec.EncoderName} run on {Path.GetFileName(Table.SourcePath)}: test accuracy {TestMetrics.Accuracy:P1}, macro F1 {TestMetrics.MacroF1:F3} ({Test.Count} rows), best epoch {History.BestEpoch}");
 }
 
 /// <summary>

@@ -49,19 +49,18 @@ public sealed class Sweep
         var inv = CultureInfo.InvariantCulture;
         if (config.IsBaseline)
         {
-            var nb = NgramNaiveBayes.Fit(split.Train.Select(p => tokens[p]).ToArray(), split.Train.Select(p => labels[p]).ToArray(),
-                Labels.Count, Plan.NgramMin, Plan.NgramMax, Plan.NgramAlpha);
+            var baseline = NgramBaseline.Fit(config.BaselineKind, split.Train.Select(p => tokens[p]).ToArray(), split.Train.Select(p => labels[p]).ToArray(),
+                Labels.Count, Plan.BaselineNgrams, Plan.NaiveBayesSmoothing, Plan.LinearL2);
             double trainSeconds = clock.Elapsed.TotalSeconds;
-            var probs = split.Test.Select(p => nb.Probabilities(tokens[p])).ToArray();
-            string model = string.Create(inv, $"multinomial naive Bayes, {Data.Tokenizer.Name} {Plan.NgramMin}–{Plan.NgramMax}-grams, α = {Plan.NgramAlpha}");
-            return Score(key, config, model, split, probs, nb.ParameterCount, [], 0, new RunTiming(trainSeconds, clock.Elapsed.TotalSeconds, 1));
+            var probs = baseline.Probabilities(split.Test.Select(p => tokens[p]).ToArray());
+            return Score(key, config, baseline.Description, split, probs, baseline.ParameterCount, [], 0, new RunTiming(trainSeconds, clock.Elapsed.TotalSeconds, 1));
         }
         var spec = config.Apply(Plan.Base);
         spec = spec with { Training = spec.Training with { Seed = key.Seed } };
         var run = FoldRun.Execute(spec, Data, key.Fold, progress, cancel);
         var epochs = run.History.Epochs.Select(e => new EpochPoint(e.Epoch, e.TrainLoss, e.TrainAccuracy, e.ValidationLoss, e.ValidationAccuracy)).ToArray();
         string description = string.Create(inv,
-            $"{spec.Cell.ToString().ToLowerInvariant()} embed {spec.EmbeddingSize} hidden {spec.HiddenSize} layers {spec.Layers}{(spec.Bidirectional ? " bidirectional" : "")} pooling {spec.Pooling.ToString().ToLowerInvariant()}, {spec.Training.Epochs} epochs, batch {spec.Training.BatchSize}, lr {spec.Training.LearningRate}");
+            $"{Kit.Models.ModelDescription.Of(run.Config)}, {spec.Training.Epochs} epochs, batch {spec.Training.BatchSize}, lr {spec.Training.LearningRate}");
         var timing = new RunTiming(run.History.Epochs.Sum(e => e.Seconds), clock.Elapsed.TotalSeconds,
             spec.Training.Threads > 0 ? spec.Training.Threads : Environment.ProcessorCount);
         return Score(key, config, description, split, run.TestProbabilities, run.Model.ParameterCount(), epochs, run.History.BestEpoch, timing);

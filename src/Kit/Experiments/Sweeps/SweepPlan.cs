@@ -6,8 +6,9 @@ namespace Kit.Experiments;
 
 /// <summary>
 /// A sweep as defined in code or on the command line: configs × training seeds × (k folds or the base spec's
-/// one holdout split), plus the n-gram naive Bayes baseline, which every comparison carries. The baseline is
-/// deterministic, so it runs once per fold (with the first seed) and is paired with every seed of the others.
+/// one holdout split), plus the two n-gram baselines (naive Bayes, logistic regression), which every comparison
+/// carries. The baselines are deterministic, so each runs once per fold (with the first seed) and is paired with
+/// every seed of the others.
 /// </summary>
 public sealed record SweepPlan
 {
@@ -17,14 +18,20 @@ public sealed record SweepPlan
     public int Seeds { get; init; } = 1;
     /// <summary>k for k-fold runs; null runs every config on the base spec's holdout split.</summary>
     public int? Folds { get; init; }
-    public int NgramMin { get; init; } = 1;
-    public int NgramMax { get; init; } = 3;
-    public double NgramAlpha { get; init; } = 1.0;
+    /// <summary>The baselines' n-grams; null takes the usual scheme for the base spec's tokenizer (<see cref="NgramScheme.ForTokenizer"/>).</summary>
+    public NgramScheme? Ngrams { get; init; }
+    /// <summary>Additive smoothing of the naive Bayes baseline.</summary>
+    public double NaiveBayesSmoothing { get; init; } = NgramBaseline.DefaultSmoothing;
+    /// <summary>L2 strength of the logistic regression baseline.</summary>
+    public double LinearL2 { get; init; } = NgramBaseline.DefaultL2;
+
+    /// <summary>The n-gram scheme the baselines use.</summary>
+    public NgramScheme BaselineNgrams => Ngrams ?? NgramScheme.ForTokenizer(Base.Tokenizer);
     /// <summary>Length bins for the by-length comparison: quantiles of all rows' token counts, shared by every run.</summary>
     public int LengthBins { get; init; } = 5;
     public int CalibrationBins { get; init; } = 10;
 
-    public IReadOnlyList<SweepConfig> AllConfigs => [.. Configs, SweepConfig.Baseline];
+    public IReadOnlyList<SweepConfig> AllConfigs => [.. Configs, .. SweepConfig.Baselines];
 
     /// <summary>How the sweep's data is prepared: the base spec's data settings with this plan's folds.</summary>
     public Kit.Data.PrepareOptions Preparation => Base.Preparation with { Folds = Folds };
@@ -32,12 +39,14 @@ public sealed record SweepPlan
     public SweepPlan Validate()
     {
         if (Configs.Count == 0) throw new ArgumentException("a sweep needs at least one config");
-        if (Configs.Any(c => c.IsBaseline)) throw new ArgumentException("the naive Bayes baseline is added by the sweep itself; do not list it");
+        if (Configs.Any(c => c.IsBaseline)) throw new ArgumentException("the baselines are added by the sweep itself; do not list them");
         var dup = Configs.GroupBy(c => c.Name).FirstOrDefault(g => g.Count() > 1);
         if (dup is not null) throw new ArgumentException($"config {dup.Key} is listed twice");
         if (Seeds < 1) throw new ArgumentException($"seeds = {Seeds}; at least one is needed");
         if (Folds is int k && k < 2) throw new ArgumentException($"folds = {k}; k-fold needs k ≥ 2 (leave folds unset for one holdout split)");
-        if (NgramMin < 1 || NgramMax < NgramMin) throw new ArgumentException($"n-gram range {NgramMin}..{NgramMax} is empty");
+        BaselineNgrams.Validate();
+        if (!(NaiveBayesSmoothing > 0) || !double.IsFinite(NaiveBayesSmoothing)) throw new ArgumentException($"naive Bayes smoothing {NaiveBayesSmoothing} must be positive");
+        if (!(LinearL2 > 0) || !double.IsFinite(LinearL2)) throw new ArgumentException($"logistic regression L2 {LinearL2} must be positive");
         return this;
     }
 
@@ -70,8 +79,9 @@ public sealed record SweepPlan
             configs = AllConfigs.Select(c => c.Name).ToArray(),
             seeds = Seeds,
             folds = Folds,
-            ngram = new[] { NgramMin, NgramMax },
-            ngram_alpha = NgramAlpha,
+            ngrams = BaselineNgrams.ToString(),
+            naive_bayes_smoothing = NaiveBayesSmoothing,
+            linear_l2 = LinearL2,
             length_bins = LengthBins,
             calibration_bins = CalibrationBins,
         };

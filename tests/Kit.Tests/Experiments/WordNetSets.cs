@@ -1,0 +1,82 @@
+using System.Text;
+
+namespace Kit.Tests.Experiments;
+
+/// <summary>
+/// Two part-of-speech tasks made from Princeton WordNet 3.0 (Miller 1995, "WordNet: A Lexical Database for English",
+/// Communications of the ACM 38(11); Fellbaum (ed.) 1998, "WordNet: An Electronic Lexical Database", MIT Press), as
+/// the Debian package wordnet-base carries it in /usr/share/wordnet (file format: the package's wndb(5WN) manual).
+/// (a) gloss → part of speech: the definition text of every synset that is not an instance (a synset with an "@i"
+/// instance-hypernym pointer names one thing, e.g. a person or place, and is left out); a gloss text shared by
+/// synsets of two parts of speech has no single answer and is left out, and a repeated one is kept once.
+/// (b) lemma → part of speech: single-word lemmas (no "_") listed in exactly one of the four index files.
+/// Satellite adjectives ("s") count as adjectives. The WordNet licence asks that its notice go with every copy of the
+/// database, so <see cref="WriteCsv"/> writes it beside each derived file.
+/// </summary>
+internal static class WordNetSets
+{
+    public static readonly string[] Parts = ["noun", "verb", "adjective", "adverb"];
+    static readonly string[] Files = ["noun", "verb", "adj", "adv"];
+
+    public const string Install = "apt-get install wordnet-base (Debian), or set KIT_WORDNET_DIR to a folder with WordNet 3.0's data.* and index.* files";
+
+    /// <summary>The WordNet dictionary folder, or null when it is not installed.</summary>
+    public static string? Folder()
+    {
+        string dir = Environment.GetEnvironmentVariable("KIT_WORDNET_DIR") is { Length: > 0 } d ? d : "/usr/share/wordnet";
+        return Files.All(f => File.Exists(Path.Combine(dir, "data." + f)) && File.Exists(Path.Combine(dir, "index." + f))) ? dir : null;
+    }
+
+    /// <summary>The licence notice at the top of a WordNet data file (its lines start with two spaces and a line number).</summary>
+    public static string Licence(string folder)
+    {
+        var lines = File.ReadLines(Path.Combine(folder, "data.adv"), Encoding.Latin1).TakeWhile(l => l.StartsWith("  ", StringComparison.Ordinal));
+        return string.Join("\n", lines.Select(l => System.Text.RegularExpressions.Regex.Replace(l, @"^\s*\d+ ?", "").TrimEnd()));
+    }
+
+    public static List<(string Text, string Label)> Glosses(string folder)
+    {
+        var byText = new Dictionary<string, HashSet<int>>(StringComparer.Ordinal);
+        var order = new List<string>();
+        for (int p = 0; p < Files.Length; p++)
+            foreach (var line in File.ReadLines(Path.Combine(folder, "data." + Files[p]), Encoding.Latin1))
+            {
+                if (line.StartsWith("  ", StringComparison.Ordinal)) continue;
+                int bar = line.IndexOf(" | ", StringComparison.Ordinal);
+                if (bar < 0) throw new InvalidDataException($"{folder}/data.{Files[p]}: a synset line without a gloss: {line[..Math.Min(60, line.Length)]}");
+                if (line[..bar].Split(' ').Contains("@i")) continue;
+                string gloss = line[(bar + 3)..].Trim();
+                if (!byText.TryGetValue(gloss, out var parts)) { byText[gloss] = parts = []; order.Add(gloss); }
+                parts.Add(p);
+            }
+        return order.Where(g => byText[g].Count == 1).Select(g => (g, Parts[byText[g].Single()])).ToList();
+    }
+
+    public static List<(string Text, string Label)> Lemmas(string folder)
+    {
+        var parts = new Dictionary<string, HashSet<int>>(StringComparer.Ordinal);
+        var order = new List<string>();
+        for (int p = 0; p < Files.Length; p++)
+            foreach (var line in File.ReadLines(Path.Combine(folder, "index." + Files[p]), Encoding.Latin1))
+            {
+                if (line.StartsWith("  ", StringComparison.Ordinal)) continue;
+                string lemma = line[..line.IndexOf(' ')];
+                if (lemma.Contains('_')) continue;
+                if (!parts.TryGetValue(lemma, out var set)) { parts[lemma] = set = []; order.Add(lemma); }
+                set.Add(p);
+            }
+        return order.Where(l => parts[l].Count == 1).Select(l => (l, Parts[parts[l].Single()])).ToList();
+    }
+
+    /// <summary>Writes text,label rows as CSV (quoted where needed) and the WordNet licence beside it.</summary>
+    public static string WriteCsv(IEnumerable<(string Text, string Label)> rows, string path, string folder)
+    {
+        var sb = new StringBuilder("text,label\n");
+        foreach (var (text, label) in rows)
+            sb.Append(text.IndexOfAny([',', '"', '\n', '\r']) >= 0 ? "\"" + text.Replace("\"", "\"\"") + "\"" : text).Append(',').Append(label).Append('\n');
+        File.WriteAllText(path, sb.ToString());
+        File.WriteAllText(Path.ChangeExtension(path, ".LICENSE.txt"),
+            "Derived from Princeton WordNet 3.0 (Debian package wordnet-base). Its licence:\n\n" + Licence(folder) + "\n");
+        return path;
+    }
+}
