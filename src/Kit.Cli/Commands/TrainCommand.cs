@@ -18,10 +18,12 @@ internal static class TrainCommand
         var data = new Argument<string>("DATA") { Description = "Labelled rows (.csv, .tsv, .jsonl)" };
         var outDir = new Option<string>("--out") { Description = "Output folder", DefaultValueFactory = _ => "train-out" };
         var resume = new Option<bool>("--resume") { Description = "Continue from DIR/checkpoints after an interruption" };
+        var baselines = new Option<bool>("--baselines") { Description = "Also fit the n-gram naive Bayes and logistic regression baselines on the same split and save them beside the model (kit score reads them)" };
         var command = new Command("train", "Train one classifier and write its bundle, metrics, timings and report.") { data };
         var shared = RunOptions.AddTo(command);
         command.Options.Add(outDir);
         command.Options.Add(resume);
+        command.Options.Add(baselines);
         command.SetAction(parse => CliErrors.Guard(() =>
         {
             string dir = parse.GetValue(outDir)!;
@@ -30,12 +32,12 @@ internal static class TrainCommand
             {
                 Training = spec.Training with { CheckpointDirectory = Path.Combine(dir, "checkpoints"), Resume = parse.GetValue(resume) },
             };
-            return Run(spec, dir);
+            return Run(spec, dir, parse.GetValue(baselines));
         }));
         return command;
     }
 
-    static int Run(RunSpec spec, string dir)
+    static int Run(RunSpec spec, string dir, bool baselines)
     {
         spec.Training.Validate();
         spec.Preparation.Validate();
@@ -68,6 +70,9 @@ internal static class TrainCommand
         Console.WriteLine(string.Create(CultureInfo.InvariantCulture,
             $"best epoch {run.History.BestEpoch}; test accuracy {run.TestMetrics.Accuracy:P2}, macro F1 {run.TestMetrics.MacroF1:F3}"));
         Console.WriteLine($"wrote {files}");
+        if (baselines)
+            foreach (var b in BaselineFiles.Write(run, dir))
+                Console.WriteLine(string.Create(CultureInfo.InvariantCulture, $"baseline {b.Description}: test accuracy {b.TestAccuracy:P2}; wrote {b.Path}"));
         return run.History.Stop == StopKind.Diverged ? 4 : run.History.Stop == StopKind.Cancelled ? 130 : 0;
     }
 }

@@ -14,7 +14,8 @@ public sealed class RunSettingsTests
     {
         var probe = new Dictionary<string, string>
         {
-            ["cell"] = "lstm", ["embed"] = "12", ["hidden"] = "40", ["layers"] = "2", ["bidirectional"] = "true", ["pooling"] = "max",
+            ["cell"] = "lstm", ["encoder"] = "transformer", ["heads"] = "2", ["positions"] = "learned", ["dropout"] = "0.3",
+            ["embed-dropout"] = "0.1", ["layer-dropout"] = "0.2", ["head-dropout"] = "0.4", ["embed"] = "12", ["hidden"] = "40", ["layers"] = "2", ["bidirectional"] = "true", ["pooling"] = "max",
             ["epochs"] = "3", ["batch"] = "16", ["lr"] = "0.01", ["optimizer"] = "sgd", ["schedule"] = "warmup-cosine",
             ["weight-decay"] = "0.001", ["clip"] = "2", ["class-weights"] = "inverse", ["label-smoothing"] = "0.1",
             ["keep-best-by"] = "macro-f1", ["stop-after"] = "2", ["seed"] = "9", ["threads"] = "1", ["tokenizer"] = "character-folded",
@@ -30,6 +31,7 @@ public sealed class RunSettingsTests
         }
         var all = RunSettings.All.Aggregate(RunSettings.Defaults, (s, k) => k.Apply(s, probe[k.Key]));
         Assert.Equal((CellKind.Lstm, 2, true, PoolingKind.Max), (all.Cell, all.Layers, all.Bidirectional, all.Pooling));
+        Assert.Equal((EncoderKind.Transformer, 2, PositionKind.Learned, 0.3, 0.1), (all.Encoder, all.Heads, all.Positions, all.Dropout, all.EmbeddingDropout));
         Assert.Equal((OptimizerKind.Sgd, ScheduleKind.WarmupCosine, 2.0, 2), (all.Training.Optimizer, all.Training.Schedule.Kind, all.Training.MaxGradientNorm, all.Training.Patience));
         Assert.Equal((TokenizerKind.Character, true, TruncationPolicy.KeepTail, 0.6, 4UL), (all.Tokenizer, all.FoldCase, all.Truncation, all.TrainFraction, all.SplitSeed));
         Assert.Equal(MonitorMetric.ValidationMacroF1, all.Training.Monitor);
@@ -38,7 +40,10 @@ public sealed class RunSettingsTests
     [Fact]
     public void Grid_keys_are_the_model_and_training_settings_and_data_settings_are_refused_in_a_grid()
     {
-        Assert.Equal(["cell", "embed", "hidden", "layers", "bidirectional", "pooling", "epochs", "batch", "lr"], SweepConfig.Keys.Take(9).Select(k => k.Key));
+        // The keys config names were written with before keep their order, so stored names stay the same.
+        string[] first = ["cell", "embed", "hidden", "layers", "bidirectional", "pooling", "epochs", "batch", "lr"];
+        Assert.Equal(first, SweepConfig.Keys.Select(k => k.Key).Where(first.Contains));
+        Assert.Equal("cell=lstm;embed=16;lr=0.01", SweepGrid.Parse("lr=0.01; embed=16; cell=lstm")[0].Name);
         var config = SweepGrid.Parse("optimizer=adamw; stop-after=2")[0];
         Assert.Equal("optimizer=adamw;stop-after=2", config.Name);
         var spec = config.Apply(RunSettings.Defaults);
@@ -66,7 +71,7 @@ public sealed class RunSettingsTests
         Assert.All(shared, o => Assert.Contains(o, train));
         Assert.All(shared, o => Assert.Contains(o, compare));
         // Beyond the shared set, each has only its own few.
-        Assert.Equal(["--out", "--resume"], train.Except(shared).Except(["--help"]).Order());
+        Assert.Equal(["--baselines", "--out", "--resume"], train.Except(shared).Except(["--help"]).Order());
         Assert.Equal(["--folds", "--grid", "--out", "--seeds", "--shard", "--workers"], compare.Except(shared).Except(["--help"]).Order());
         Assert.All(RunSettings.All.Where(s => s.Scope == SettingScope.Data), s => Assert.Contains("--" + s.Key, inspect));
         Assert.DoesNotContain("--epochs", inspect);

@@ -17,13 +17,14 @@ public static class BaselineFiles
         double smoothing = NgramBaseline.DefaultSmoothing, double l2 = NgramBaseline.DefaultL2)
     {
         Directory.CreateDirectory(directory);
-        IReadOnlyList<string> Tokens(int position) => run.Tokenizer.Split(run.Table.Texts[run.Rows[position]]);
-        int Label(int position) => run.Labels[run.Table.Labels[run.Rows[position]]];
+        // The prepared data already holds every position's tokens and label id.
+        IReadOnlyList<string> Tokens(int position) => run.Data.Pieces[position];
+        int Label(int position) => run.Data.LabelIds[position];
         var train = run.Split.Train.Select(Tokens).ToArray();
         var labels = run.Split.Train.Select(Label).ToArray();
         var test = run.Split.Test.Select(Tokens).ToArray();
         var truth = run.Split.Test.Select(Label).ToArray();
-        var scheme = NgramScheme.ForTokenizer(run.Spec.Tokenizer);
+        var scheme = NgramScheme.ForTokenizer(run.Data.Options.Tokenizer);
         var written = new List<BaselineFile>();
         foreach (var kind in new[] { BaselineKind.NaiveBayes, BaselineKind.LogisticRegression })
         {
