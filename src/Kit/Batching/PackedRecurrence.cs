@@ -51,7 +51,7 @@ public static class PackedRecurrence
             switch (cell)
             {
                 case GRU gru: (outputs, hidden) = gru.call(embedded, null); break;
-                case LSTM lstm: { var (o, h, c) = lstm.call(embedded, null); outputs = o; hidden = h; cellState = c; break; }
+                case LSTM lstm: { var (o, h, c) = DenseLstm(lstm, embedded); outputs = o; hidden = h; cellState = c; break; }
                 case RNN rnn: (outputs, hidden) = rnn.call(embedded, null); break;
                 default: throw new ArgumentException($"PackedRecurrence runs GRU, LSTM or RNN modules, not {cell.GetType().Name}");
             }
@@ -97,11 +97,30 @@ public static class PackedRecurrence
         Tensor outputs = cell switch
         {
             GRU gru => gru.call(embedded, null).Item1,
-            LSTM lstm => lstm.call(embedded, null).Item1,
+            LSTM lstm => DenseLstm(lstm, embedded).Outputs,
             RNN rnn => rnn.call(embedded, null).Item1,
             _ => throw new ArgumentException($"RunPadded runs GRU, LSTM or RNN modules, not {cell.GetType().Name}"),
         };
         return outputs.MoveToOuterDisposeScope();
+    }
+
+    /// <summary>
+    /// An LSTM over every step of every row. Under no_grad the engine's dense (unpacked) CPU LSTM call departs from
+    /// the LSTM equations (TorchSharp 0.107; seen from the first step, by hand and against ONNX Runtime), while its
+    /// packed call does not, so the dense case goes through a packing with every row at full length: the same result.
+    /// </summary>
+    static (Tensor Outputs, Tensor Hidden, Tensor Cell) DenseLstm(LSTM lstm, Tensor embedded)
+    {
+        if (torch.is_grad_enabled())
+        {
+            var (o, h, c) = lstm.call(embedded, null);
+            return (o, h, c);
+        }
+        long rows = embedded.shape[0], steps = embedded.shape[1];
+        using var full = torch.full(rows, steps, dtype: ScalarType.Int64);
+        using var packed = pack_padded_sequence(embedded, full, batch_first: true, enforce_sorted: true);
+        var (po, hidden, cell) = lstm.call(packed, null);
+        using (po) return (Unpack(po, steps), hidden, cell);
     }
 
     static Tensor Unpack(PackedSequence packed, long steps)
