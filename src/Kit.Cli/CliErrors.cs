@@ -22,6 +22,11 @@ internal static class CliErrors
             Console.Error.WriteLine(e.Message);
             return 2;
         }
+        catch (Kit.Scoring.ScoringModelError e)
+        {
+            Console.Error.WriteLine(e.Message);
+            return 2;
+        }
         catch (EngineLoadException e)
         {
             Console.Error.WriteLine($"engine: {e.Message}");

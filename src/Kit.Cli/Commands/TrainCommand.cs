@@ -161,6 +161,7 @@ internal static class TrainCommand
             Truncation = spec.Truncation,
             Temperature = temperature,
             TrainingSeed = spec.Training.Seed,
+            Profile = TrainingProfileOfRun.Build(run, spec.MaxLength, temperature),
         };
         string bundlePath = Path.Combine(dir, ModelBundle.DefaultFileName);
         bundle.Save(bundlePath);

@@ -34,6 +34,33 @@ internal static class OnnxSamples
         };
     }
 
+    /// <summary>The bundle with a profile counted on demo rows 600..899 (standing in for a validation part).</summary>
+    public static ModelBundle WithProfile(ModelBundle bundle)
+    {
+        var table = Hostnames.Value;
+        var rows = table.Texts.Skip(600).Take(300).ToArray();
+        var tokenizer = bundle.Tokenizer.Create();
+        var (set, _) = Encoder.Encode(rows, new int[rows.Length], tokenizer, bundle.Vocabulary, bundle.MaxLength, bundle.Truncation);
+        var scores = TextScorer.Score(bundle, rows);
+        var profile = TrainingProfile.From(bundle.MaxLength, rows.Select(t => tokenizer.Split(t).Count).ToArray(), set.Tokens.LongLength,
+            set.Tokens.LongCount(id => id == Vocabulary.UnknownId), bundle.Labels.Names,
+            table.Labels.Take(600).Select(l => bundle.Labels[l]).ToArray(), scores.Probabilities.Where(p => p is not null).Select(p => p!).ToArray());
+        return new ModelBundle
+        {
+            Model = bundle.Model, Tokenizer = bundle.Tokenizer, Vocabulary = bundle.Vocabulary, Labels = bundle.Labels, MaxLength = bundle.MaxLength,
+            Truncation = bundle.Truncation, Temperature = bundle.Temperature, TrainingSeed = bundle.TrainingSeed, Profile = profile,
+        };
+    }
+
+    /// <summary>A CSV of demo rows (text, label) for the CLI to score.</summary>
+    public static string RowsCsv(string dir, int skip, int take)
+    {
+        var table = Hostnames.Value;
+        string path = Path.Combine(dir, $"rows-{skip}-{take}.csv");
+        File.WriteAllLines(path, new[] { "text,label" }.Concat(Enumerable.Range(skip, take).Select(i => $"{table.Texts[i]},{table.Labels[i]}")));
+        return path;
+    }
+
     public static string TempDir()
     {
         string dir = Path.Combine(Path.GetTempPath(), "kit-onnx-" + Guid.NewGuid().ToString("N"));
