@@ -117,4 +117,24 @@ public sealed class ExportCliTests : IDisposable
         var e = Assert.Throws<ArgumentException>(() => model.Run(new[] { new[] { 2, 3, 4, 5, 6, 7, 8 } }));
         Assert.Contains("longer than the exported maximum length 6", e.Message);
     }
+
+    [Fact]
+    public void Kit_train_keeps_a_training_profile_that_export_carries_to_the_side_car()
+    {
+        string rows = OnnxSamples.RowsCsv(_dir, 0, 400);
+        string outDir = Path.Combine(_dir, "train");
+        var train = RunKit("train", rows, "--epochs", "1", "--embed", "8", "--hidden", "8", "--max-length", "32", "--threads", "1", "--out", outDir);
+        Assert.True(train.Code == 0, train.Err);
+        var bundle = global::Kit.Training.ModelBundle.Load(Path.Combine(outDir, "model.kitmodel"));
+        var profile = Assert.IsType<global::Kit.Training.TrainingProfile>(bundle.Profile);
+        Assert.True(profile.Rows > 0);
+        Assert.Equal(profile.Rows, profile.LengthCounts.Sum());
+        Assert.Equal(profile.Rows, profile.ConfidenceCounts.Sum());
+        Assert.Equal(1.0, profile.ClassPrior.Sum(), 9);
+        Assert.Equal(bundle.Labels.Names, profile.Labels);
+        string onnx = Path.Combine(_dir, "trained.onnx");
+        Assert.Equal(0, RunKit("export", Path.Combine(outDir, "model.kitmodel"), "--onnx", onnx).Code);
+        var sidecar = JsonNode.Parse(File.ReadAllText(onnx + ".json"))!;
+        Assert.Equal(profile.ToJson(), sidecar["profile"]!.ToJsonString());
+    }
 }
