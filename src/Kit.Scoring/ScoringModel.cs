@@ -22,12 +22,12 @@ public sealed class ScoringModel : IDisposable
     public IReadOnlyList<string> Labels => Manifest.Labels;
     public int MaxLength => Manifest.MaxLength;
 
-    ScoringModel(string path, InferenceSession session, ScoringManifest manifest)
+    ScoringModel(string path, InferenceSession session, ScoringManifest manifest, string manifestSource)
     {
         ModelPath = path;
         _session = session;
         Manifest = manifest;
-        _splitter = TokenSplitter.For(manifest.TokenizerKind, manifest.FoldCase, manifest.LowerCase, path);
+        _splitter = TokenSplitter.For(manifest.TokenizerKind, manifest.FoldCase, manifest.LowerCase, manifestSource);
         _ids = new Dictionary<string, int>(manifest.Vocabulary.Count, StringComparer.Ordinal);
         for (int i = 2; i < manifest.Vocabulary.Count; i++) _ids[manifest.Vocabulary[i]] = i;
     }
@@ -75,7 +75,7 @@ public sealed class ScoringModel : IDisposable
             else
                 throw new ScoringModelError(onnxPath, $"not a kit export: no side-car ({Path.GetFileName(ScoringManifest.SidecarPath(onnxPath))}) and no kit metadata in the graph");
             CheckGraph(session, manifest, onnxPath, sidecar ?? onnxPath);
-            return new ScoringModel(onnxPath, session, manifest);
+            return new ScoringModel(onnxPath, session, manifest, sidecar ?? onnxPath);
         }
         catch
         {
