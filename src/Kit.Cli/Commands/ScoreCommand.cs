@@ -81,9 +81,8 @@ internal static class ScoreCommand
             Console.Error.WriteLine($"{modelPath}: no training profile in this model, so no drift check (re-train and re-export to get one)");
             return;
         }
-        var usable = Enumerable.Range(0, scores.Count).Where(i => scores.Probabilities[i] is not null).ToArray();
-        var drift = DriftReport.Compute(scores.Profile, scores.RawTokens, scores.Tokens.Sum(x => (long)x), scores.UnknownTokens.Sum(x => (long)x),
-            usable.Select(i => scores.Probabilities[i]!.Max()).ToArray(), usable.Select(i => scores.Predicted[i]).ToArray());
+        var drift = BundleDrift.Compare(scores.Profile, scores.Probabilities, scores.Predicted, scores.Tokens,
+            new TokenCounts(scores.RawTokens, scores.UnknownTokens));
         string driftPath = DriftPath(outPath);
         AtomicFile.WriteAllText(driftPath, drift.ToJson());
         Console.WriteLine(drift.Summary());
@@ -95,17 +94,9 @@ internal static class ScoreCommand
     internal static ScoredRows WithBundle(ModelBundle bundle, IReadOnlyList<string> texts)
     {
         var s = TextScorer.Score(bundle, texts);
-        var tokenizer = bundle.Tokenizer.Create();
-        var (set, _) = Kit.Data.Encoder.Encode(texts, new int[texts.Count], tokenizer, bundle.Vocabulary, bundle.MaxLength, bundle.Truncation);
-        var raw = texts.Select(t => tokenizer.Split(t).Count).ToArray();
-        var unknown = Enumerable.Range(0, texts.Count).Select(i =>
-        {
-            int n = 0;
-            foreach (int id in set[i]) if (id == Vocabulary.UnknownId) n++;
-            return n;
-        }).ToArray();
+        var counts = BundleDrift.Count(bundle, texts);
         return new ScoredRows(bundle.Labels.Names, bundle.MaxLength, bundle.Truncation.ToString(), s.Predicted, s.Probabilities, s.Flags,
-            s.Tokens, raw, unknown, s.Truncated, bundle.Profile);
+            s.Tokens, counts.Raw, counts.Unknown, s.Truncated, bundle.Profile);
     }
 
     internal static ScoredRows WithOnnx(string onnxPath, string? sidecarPath, IReadOnlyList<string> texts)

@@ -24,3 +24,23 @@ public sealed class DriftViewTests
         Assert.Contains("major shift", FigureChecks.Title(chart));
     }
 }
+
+[Collection(global::Kit.Tests.Training.EngineRandomCollection.Name)]
+public sealed class BundleDriftTests
+{
+    [Fact]
+    public void Rows_like_the_profile_pass_and_word_notes_on_a_hostname_model_do_not()
+    {
+        var bundle = OnnxSamples.WithProfile(OnnxSamples.Bundle(new Kit.Models.ClassifierConfig(2, 2, EmbeddingSize: 8, HiddenSize: 6)));
+        // The profile counted demo rows 600..899; rows 900..1199 come from the same generator.
+        var like = BundleDrift.Check(bundle, OnnxSamples.Texts(1200).Skip(900).ToArray())!;
+        Assert.DoesNotContain(like.Checks, c => c.Level == DriftLevel.Major);
+        var notes = global::Kit.Data.TableReader.Read(Path.Combine(global::Kit.Tests.Experiments.KitCli.RepoRoot(), "data-demo", "maintenance-notes.csv"),
+            new global::Kit.Data.ColumnSpec("text", "label")).Texts.Take(300).ToArray();
+        var unlike = BundleDrift.Check(bundle, notes)!;
+        Assert.Equal(DriftLevel.Major, unlike.Checks.Single(c => c.Aspect == "tokens per row" && c.Statistic == "PSI").Level);
+        Assert.NotEqual(DriftLevel.None, unlike.Checks.Single(c => c.Aspect == "unknown tokens").Level);
+        var noProfile = OnnxSamples.Bundle(new Kit.Models.ClassifierConfig(2, 2, EmbeddingSize: 4, HiddenSize: 4));
+        Assert.Null(BundleDrift.Check(noProfile, notes));
+    }
+}
