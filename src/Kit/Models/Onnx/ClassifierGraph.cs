@@ -71,6 +71,10 @@ public static class ClassifierGraph
         g.NodeNamed("Softmax", new[] { scaled }, new[] { ProbabilitiesOutput }, OnnxAttribute.Of("axis", 1L));
         g.Output(LogitsOutput, FloatType, "batch", (long)config.Classes);
         g.Output(ProbabilitiesOutput, FloatType, "batch", (long)config.Classes);
+        // A module the graph does not know (a newer encoder, a norm layer) would otherwise be left out silently.
+        var unused = weights.Unused();
+        if (unused.Count > 0)
+            throw new NotSupportedException($"ONNX export does not cover this model: weights {string.Join(", ", unused.Take(4))} have no place in the exported graph");
         return g.ToModel("kit_sequence_classifier", opset, metadata, "kit", producerVersion);
     }
 
@@ -190,14 +194,40 @@ public static class ClassifierGraph
 
     sealed record Weight(float[] Data, long[] Shape);
 
-    static Dictionary<string, Weight> Weights(SequenceClassifier model)
+    /// <summary>The model's weights by state-dict name, remembering which ones the graph has read.</summary>
+    sealed class WeightSet : IReadOnlyDictionary<string, Weight>
     {
-        var result = new Dictionary<string, Weight>(StringComparer.Ordinal);
-        foreach (var (name, tensor) in model.state_dict())
+        readonly Dictionary<string, Weight> _all = new(StringComparer.Ordinal);
+        readonly HashSet<string> _read = new(StringComparer.Ordinal);
+
+        public WeightSet(SequenceClassifier model)
         {
-            using var cpu = tensor.detach().cpu().to(ScalarType.Float32).contiguous();
-            result[name] = new Weight(cpu.data<float>().ToArray(), cpu.shape);
+            foreach (var (name, tensor) in model.state_dict())
+            {
+                using var cpu = tensor.detach().cpu().to(ScalarType.Float32).contiguous();
+                _all[name] = new Weight(cpu.data<float>().ToArray(), cpu.shape);
+            }
         }
-        return result;
+
+        public Weight this[string key]
+        {
+            get
+            {
+                if (!_all.TryGetValue(key, out var w)) throw new NotSupportedException($"ONNX export expected a weight '{key}' that this model does not have");
+                _read.Add(key);
+                return w;
+            }
+        }
+
+        public IReadOnlyList<string> Unused() => _all.Keys.Where(k => !_read.Contains(k)).OrderBy(k => k, StringComparer.Ordinal).ToArray();
+        public IEnumerable<string> Keys => _all.Keys;
+        public IEnumerable<Weight> Values => _all.Values;
+        public int Count => _all.Count;
+        public bool ContainsKey(string key) => _all.ContainsKey(key);
+        public bool TryGetValue(string key, [System.Diagnostics.CodeAnalysis.MaybeNullWhen(false)] out Weight value) => _all.TryGetValue(key, out value);
+        public IEnumerator<KeyValuePair<string, Weight>> GetEnumerator() => _all.GetEnumerator();
+        System.Collections.IEnumerator System.Collections.IEnumerable.GetEnumerator() => GetEnumerator();
     }
+
+    static WeightSet Weights(SequenceClassifier model) => new(model);
 }
