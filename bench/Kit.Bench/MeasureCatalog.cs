@@ -12,5 +12,6 @@ public static class MeasureCatalog
         new Batching.EpochSpeedupMeasure(),
         new Training.TrainingRatioMeasure(),
         new Training.ThroughputCeilingMeasure(),
+        new Onnx.OnnxScoringMeasure(),
     };
 }

@@ -36,6 +36,11 @@ internal static class CliErrors
             errors.WriteLine(e.Message);
             return BadInput;
         }
+        catch (Kit.Scoring.ScoringModelError e)
+        {
+            Console.Error.WriteLine(e.Message);
+            return 2;
+        }
         catch (EngineLoadException e)
         {
             errors.WriteLine($"engine: {e.Message}");

@@ -49,14 +49,14 @@ public sealed class TrainingRatioMeasure : IMeasure
 
         torch.manual_seed(1);
         var kitModel = config.Build();
-        Scoring.Logits(kitModel, inferSet, InferBatch);
+        Kit.Training.Scoring.Logits(kitModel, inferSet, InferBatch);
         BareInfer(kitModel, inferSet);
         var kitInfer = new List<double>();
         var bareInfer = new List<double>();
         for (int r = 0; r < Rounds; r++)
         {
             var clock = Stopwatch.StartNew();
-            Scoring.Logits(kitModel, inferSet, InferBatch);
+            Kit.Training.Scoring.Logits(kitModel, inferSet, InferBatch);
             kitInfer.Add(inferSet.Count / clock.Elapsed.TotalSeconds);
             bareInfer.Add(BareInfer(kitModel, inferSet));
         }

@@ -16,5 +16,6 @@ internal static class CommandCatalog
         yield return ReportCommand.Build();
         yield return TrainCommand.Build();
         yield return ScoreCommand.Build();
+        yield return ExportCommand.Build();
     }
 }

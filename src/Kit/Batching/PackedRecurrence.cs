@@ -46,13 +46,12 @@ public static class PackedRecurrence
         Tensor? cellState = null;
         // No row is padded: the dense call computes exactly what the packed one would, without the engine's
         // sort, gather and unpack around every batch (the common case for fixed-length codes and for length buckets).
-        // Not for an LSTM: see LstmOverPadded.
-        if (cpuLengths.min().item<long>() == steps && cell is not LSTM)
+        if (cpuLengths.min().item<long>() == steps)
         {
             switch (cell)
             {
                 case GRU gru: (outputs, hidden) = gru.call(embedded, null); break;
-                case LSTM lstm: { var (o, h, c) = lstm.call(embedded, null); outputs = o; hidden = h; cellState = c; break; }
+                case LSTM lstm: { var (o, h, c) = DenseLstm(lstm, embedded); outputs = o; hidden = h; cellState = c; break; }
                 case RNN rnn: (outputs, hidden) = rnn.call(embedded, null); break;
                 default: throw new ArgumentException($"PackedRecurrence runs GRU, LSTM or RNN modules, not {cell.GetType().Name}");
             }
@@ -98,7 +97,7 @@ public static class PackedRecurrence
         Tensor outputs = cell switch
         {
             GRU gru => gru.call(embedded, null).Item1,
-            LSTM lstm => LstmOverPadded(lstm, embedded),
+            LSTM lstm => DenseLstm(lstm, embedded).Outputs,
             RNN rnn => rnn.call(embedded, null).Item1,
             _ => throw new ArgumentException($"RunPadded runs GRU, LSTM or RNN modules, not {cell.GetType().Name}"),
         };
@@ -106,21 +105,22 @@ public static class PackedRecurrence
     }
 
     /// <summary>
-    /// An LSTM over every step of a dense batch, through the packed kernel with every row full length. The engine's
-    /// dense LSTM call takes a different CPU kernel when gradients are off (scoring, validation), and that kernel's
-    /// outputs disagree with the LSTM equations and with the same call under gradients (measured with TorchSharp
-    /// 0.107 on Debian 12: differences of 0.03–0.07 in outputs of size ~0.1; see PackedRecurrenceTests). The packed
-    /// kernel matches the equations in both modes.
+    /// An LSTM over every step of every row. Under no_grad the engine's dense (unpacked) CPU LSTM call departs from
+    /// the LSTM equations (TorchSharp 0.107; seen from the first step, by hand and against ONNX Runtime), while its
+    /// packed call does not, so the dense case goes through a packing with every row at full length: the same result.
     /// </summary>
-    static Tensor LstmOverPadded(LSTM lstm, Tensor embedded)
+    static (Tensor Outputs, Tensor Hidden, Tensor Cell) DenseLstm(LSTM lstm, Tensor embedded)
     {
-        long b = embedded.shape[0], steps = embedded.shape[1];
-        using var full = torch.full(b, steps, ScalarType.Int64);
-        using var packed = pack_padded_sequence(embedded, full, batch_first: true, enforce_sorted: false);
-        var (po, h, c) = lstm.call(packed, null);
-        h.Dispose();
-        c.Dispose();
-        using (po) return Unpack(po, steps);
+        if (torch.is_grad_enabled())
+        {
+            var (o, h, c) = lstm.call(embedded, null);
+            return (o, h, c);
+        }
+        long rows = embedded.shape[0], steps = embedded.shape[1];
+        using var full = torch.full(rows, steps, dtype: ScalarType.Int64);
+        using var packed = pack_padded_sequence(embedded, full, batch_first: true, enforce_sorted: true);
+        var (po, hidden, cell) = lstm.call(packed, null);
+        using (po) return (Unpack(po, steps), hidden, cell);
     }
 
     static Tensor Unpack(PackedSequence packed, long steps)

@@ -26,6 +26,8 @@ public sealed class ModelBundle
     /// <summary>Softmax temperature fitted on validation logits (temperature scaling); null = not calibrated (T = 1).</summary>
     public double? Temperature { get; init; }
     public ulong TrainingSeed { get; init; }
+    /// <summary>What the training data looked like, for the drift check at score time; null in bundles written before it existed.</summary>
+    public TrainingProfile? Profile { get; init; }
     public ClassifierConfig Config => Model.Config;
 
     /// <summary>The same bundle with a calibration temperature (the diagnostics layer fits it).</summary>
@@ -36,7 +38,7 @@ public sealed class ModelBundle
         return new ModelBundle
         {
             Model = Model, Tokenizer = Tokenizer, Vocabulary = Vocabulary, Labels = Labels, MaxLength = MaxLength,
-            Truncation = Truncation, Temperature = temperature, TrainingSeed = TrainingSeed,
+            Truncation = Truncation, Temperature = temperature, TrainingSeed = TrainingSeed, Profile = Profile,
         };
     }
 
@@ -58,6 +60,7 @@ public sealed class ModelBundle
             ["temperature"] = Temperature,
             ["trainingSeed"] = TrainingSeed,
         };
+        if (Profile is not null) manifest["profile"] = JsonNode.Parse(Profile.ToJson());
         return KitContainer.Write(Magic, manifest, new[] { ("weights", TensorArchive.Write(Model.state_dict())) });
     }
 
@@ -89,6 +92,7 @@ public sealed class ModelBundle
             var truncation = Enum.Parse<TruncationPolicy>((string?)m["truncation"] ?? nameof(TruncationPolicy.KeepHead));
             double? temperature = (double?)m["temperature"];
             if (temperature is double t && !(t > 0 && double.IsFinite(t))) throw new BundleError(source, $"temperature {t} must be positive");
+            var profile = m["profile"] is JsonNode p ? TrainingProfile.FromJson(p.ToJsonString(), source + " (profile)") : null;
             if (!sections.TryGetValue("weights", out var weightBytes)) throw new BundleError(source, "no 'weights' section");
 
             Kit.Native.Engine.EnsureLoaded();
@@ -106,7 +110,7 @@ public sealed class ModelBundle
             return new ModelBundle
             {
                 Model = model, Tokenizer = tokenizer, Vocabulary = vocabulary, Labels = labels, MaxLength = maxLength,
-                Truncation = truncation, Temperature = temperature, TrainingSeed = (ulong?)m["trainingSeed"] ?? 0,
+                Truncation = truncation, Temperature = temperature, TrainingSeed = (ulong?)m["trainingSeed"] ?? 0, Profile = profile,
             };
         }
         catch (Exception e) when (e is FormatException or InvalidDataException or DataError or InvalidOperationException or ArgumentException)

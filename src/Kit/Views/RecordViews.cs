@@ -37,6 +37,7 @@ public static class RecordViews
         ViewRegistry.Register<TemperatureReport>(Temperature);
         ViewRegistry.Register<Projection>(p => p.Points.Any(x => x.Label is not null) ? ProjectionViews.Sequences(p) : ProjectionViews.Tokens(p));
         ViewRegistry.Register<ErrorAnalysis>(e => ErrorViews.Tables(e));
+        ViewRegistry.Register<DriftReport>(DriftViews.View);
         // Runs and comparisons
         ViewRegistry.Register<OcclusionCase>(OcclusionViews.Case);
         ViewRegistry.Register<RunOutcome>(Outcome);

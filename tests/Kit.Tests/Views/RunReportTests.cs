@@ -97,7 +97,7 @@ public class RunReportTests(SmallRun small) : IClassFixture<SmallRun>
         var pooled = ModelReadout.Pooled(_run.Model, subset);
         Assert.Equal(40, pooled.Length);
         Assert.Equal(_run.Config.PooledSize, pooled[0].Length);
-        var logits = Scoring.Logits(_run.Model, subset);
+        var logits = Kit.Training.Scoring.Logits(_run.Model, subset);
         Assert.Equal(Kit.Models.HeadKind.Linear, _run.Config.Head);
         var parameters = _run.Model.named_parameters().ToDictionary(p => p.name, p => p.parameter);
         var w = parameters["head.linear.weight"];
