@@ -23,6 +23,19 @@ public class NotebookRulesTests
 
     [Theory]
     [MemberData(nameof(Notebooks))]
+    public void Loading_the_package_is_all_the_set_up_a_notebook_needs_and_sections_are_reached_by_name(string name)
+    {
+        var notebook = JsonNode.Parse(File.ReadAllText(Path.Combine(Folder, name)))!;
+        var code = notebook["cells"]!.AsArray().Where(c => (string)c!["cell_type"]! == "code")
+            .Select(c => ChartMarkers.Text(c!["source"])!).ToArray();
+        // The extension imports the kit's namespaces on load, so no cell starts with using lines.
+        Assert.DoesNotContain(code, c => System.Text.RegularExpressions.Regex.IsMatch(c, @"^\s*using\s+[\w.]+;", System.Text.RegularExpressions.RegexOptions.Multiline));
+        // Report parts by name, never by list position (a new view would shift them).
+        Assert.DoesNotContain(code, c => System.Text.RegularExpressions.Regex.IsMatch(c, @"report\.(Take|Skip|ElementAt)\(|report\[\d"));
+    }
+
+    [Theory]
+    [MemberData(nameof(Notebooks))]
     public void Committed_without_outputs_opening_with_the_question_and_loading_the_package(string name)
     {
         var notebook = JsonNode.Parse(File.ReadAllText(Path.Combine(Folder, name)))!;

@@ -17,8 +17,8 @@ internal static class ExportCommand
         var onnx = new Option<string>("--onnx") { Description = "ONNX file to write (the side-car goes to FILE.json)", Required = true };
         var opset = new Option<int>("--opset") { Description = "ONNX opset to declare (17 or later)", DefaultValueFactory = _ => ClassifierGraph.Opset };
         var command = new Command("export", "Write a trained bundle as an ONNX graph with its tokenizer and labels beside it.") { model, onnx, opset };
-        command.SetAction(parse => CliErrors.Guard(() => TrainCommand.Guarded(() =>
-            Run(parse.GetValue(model)!, parse.GetValue(onnx)!, parse.GetValue(opset)))));
+        command.SetAction(parse => CliErrors.Guard(() =>
+            Run(parse.GetValue(model)!, parse.GetValue(onnx)!, parse.GetValue(opset))));
         return command;
     }
 
