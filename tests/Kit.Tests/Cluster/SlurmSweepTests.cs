@@ -14,7 +14,7 @@ namespace Kit.Tests.Cluster;
 public sealed class SlurmSweepTests : IDisposable
 {
     const int Shards = 2;
-    const int RunsPerShard = 5; // 2 configs × 2 seeds × 2 folds + the baseline on 2 folds = 10 runs
+    const int RunsPerShard = 6; // 2 configs × 2 seeds × 2 folds + the two n-gram baselines on 2 folds = 12 runs
     const string Grid = "cell=gru,lstm";
     const string Seeds = "2", Folds = "2";
     // Big enough that a task is still training for a few seconds after its first run (the fault test cancels then).
