@@ -9,7 +9,7 @@ namespace Kit.Cli.Commands;
 
 /// <summary>
 /// `kit compare DATA --grid "cell=gru,lstm; embed=16,64" --seeds 3 [--folds K] --out DIR [--workers N] [--shard i/N|auto|auto/N]`:
-/// a sweep of configs × seeds × folds with the naive Bayes baseline, each finished run appended to DIR's store;
+/// a sweep of configs × seeds × folds with the n-gram naive Bayes and logistic regression baselines, each finished run appended to DIR's store;
 /// re-running skips finished runs. The whole (unsharded) sweep ends with DIR/report.html.
 /// </summary>
 internal static class CompareCommand
@@ -29,7 +29,7 @@ internal static class CompareCommand
         var workers = new Option<int>("--workers") { Description = "Worker processes sharing the cores", DefaultValueFactory = _ => 1 };
         var shard = new Option<string?>("--shard") { Description = "Run only share i of N (i/N), or take it from a job array (auto, auto/N)" };
         var serve = new Option<bool>("--serve") { Description = "Internal: act as a worker process reading run ids on standard input", Hidden = true };
-        var command = new Command("compare", "Sweep configs × seeds × folds against an n-gram naive Bayes baseline, crash-safe and resumable.") { data };
+        var command = new Command("compare", "Sweep configs × seeds × folds against n-gram naive Bayes and logistic regression baselines, crash-safe and resumable.") { data };
         var shared = RunOptions.AddTo(command);
         foreach (var option in new Option[] { grid, seeds, folds, output, workers, shard, serve }) command.Options.Add(option);
         command.SetAction(parse => CliErrors.Guard(() => Run(new Settings(
@@ -59,7 +59,7 @@ internal static class CompareCommand
         if (s.Serve) return SweepWorker.Serve(sweep, Console.In, Console.Out, Console.Error);
 
         var all = plan.Runs();
-        Console.Error.WriteLine($"compare: {plan.AllConfigs.Count} configs (with the baseline), {all.Count} runs in all; shard {shard}; " +
+        Console.Error.WriteLine($"compare: {plan.AllConfigs.Count} configs (with the two baselines), {all.Count} runs in all; shard {shard}; " +
                                 $"{s.Workers} worker(s) × {plan.Base.Training.Threads} thread(s); store {s.Out}");
         var workers = new List<ProcessWorker>();
         try
