@@ -14,7 +14,9 @@ namespace Kit.Models.Onnx;
 /// direction starts at each row's own last token. Gate blocks are reordered from the engine's layout (GRU r,z,n;
 /// LSTM i,f,g,o) to ONNX's (GRU z,r,h; LSTM i,o,f,c), and the engine's GRU applies the reset gate after the
 /// recurrent matrix product, which is ONNX's linear_before_reset = 1. Pooling uses the same padding mask as
-/// <see cref="SequencePooling"/>. Dropout is absent: an exported model is in evaluation mode.
+/// <see cref="SequencePooling"/>. Dropout is absent: an exported model is in evaluation mode. The convolutional
+/// and Transformer encoders are built from MatMul, Slice, LayerNormalization and Softmax nodes that repeat the
+/// engine's arithmetic step by step (see <see cref="Convolution"/> and <see cref="Transformer"/>).
 /// </summary>
 public static class ClassifierGraph
 {
@@ -196,7 +198,7 @@ public static class ClassifierGraph
     }
 
     static Exception Unsupported(ClassifierConfig config) =>
-        new NotSupportedException($"ONNX export does not cover encoder '{config.Cell}' yet");
+        new NotSupportedException($"ONNX export does not cover recurrent cell '{config.Cell}'");
 
     /// <summary>The padding masks from <c>lengths</c>, built once: valid[b, t] = t &lt; length[b].</summary>
     sealed class Masks
