@@ -37,13 +37,15 @@ public static class ClassifierGraph
 
         var embedding = g.Constant("embedding", weights["embedding.weight"].Data, config.VocabularySize, config.EmbeddingSize);
         var embedded = g.Node("Gather", new[] { embedding, TokensInput }, OnnxAttribute.Of("axis", 0L));          // [B, T, E]
-        var masks = new Masks(g);
+        // Built on first use, so a recurrent graph with last-state pooling carries no unused mask nodes.
+        Masks? built = null;
+        Masks masks() => built ??= new Masks(g);
         string steps, yLast = "";
         switch (config.Encoder)
         {
             case EncoderKind.Recurrent: (steps, yLast) = Recurrent(g, config, weights, embedded); break;
-            case EncoderKind.Convolution: steps = Convolution(g, config, weights, embedded, masks); break;
-            case EncoderKind.Transformer: steps = Transformer(g, config, weights, embedded, masks, positionRows); break;
+            case EncoderKind.Convolution: steps = Convolution(g, config, weights, embedded, masks()); break;
+            case EncoderKind.Transformer: steps = Transformer(g, config, weights, embedded, masks(), positionRows); break;
             default: throw new NotSupportedException($"ONNX export does not cover encoder '{config.Encoder}'");
         }
 
@@ -220,7 +222,7 @@ public static class ClassifierGraph
         }
     }
 
-    static string Pool(OnnxGraph g, ClassifierConfig config, IReadOnlyDictionary<string, Weight> weights, string steps, string yLast, Masks m)
+    static string Pool(OnnxGraph g, ClassifierConfig config, IReadOnlyDictionary<string, Weight> weights, string steps, string yLast, Func<Masks> masks)
     {
         if (config.Pooling == PoolingKind.Last && config.Encoder == EncoderKind.Recurrent)
         {
@@ -228,6 +230,7 @@ public static class ClassifierGraph
             var perRow = g.Node("Transpose", new[] { yLast }, OnnxAttribute.Of("perm", new long[] { 1, 0, 2 }));      // [B, D, H]
             return g.Node("Reshape", new[] { perRow, g.Constant("flatten_directions", new long[] { 0, -1 }, 2) });
         }
+        var m = masks();
         string mask = m.Valid, mask3 = m.Valid3, axis1 = m.Axis1, axis2 = m.Axis2, lengthColumn = m.LengthColumn;
         var clean = g.Node("Where", new[] { mask3, steps, g.Scalar("zero_f", 0f) });
         var keep = OnnxAttribute.Of("keepdims", 0L);
