@@ -42,7 +42,7 @@ public static class OnnxExport
         if (bundle.Tokenizer.Kind == Kit.Data.TokenizerSpec.Delegate)
             throw new NotSupportedException($"tokenizer '{bundle.Tokenizer.Name}' is a user function; an exported model can carry only the character, word or byte tokenizer");
         double temperature = bundle.Temperature ?? 1.0;
-        var graph = ClassifierGraph.Build(bundle.Model, temperature, Array.Empty<KeyValuePair<string, string>>(), opset: opset);
+        var graph = ClassifierGraph.Build(bundle.Model, temperature, Array.Empty<KeyValuePair<string, string>>(), opset: opset, positionRows: bundle.MaxLength);
         string id = Convert.ToHexStringLower(SHA256.HashData(graph));
         string sidecar = Sidecar(bundle, id, temperature, opset);
         // A ModelProto is a sequence of fields, so metadata_props entries can follow the rest of the message.

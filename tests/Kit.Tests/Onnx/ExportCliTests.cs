@@ -13,9 +13,9 @@ public sealed class ExportCliTests : IDisposable
 
     public void Dispose() => Directory.Delete(_dir, recursive: true);
 
-    string SavedBundle(CellKind cell, string name = "model.kitmodel", ulong seed = 7, int maxLength = 24)
+    string SavedBundle(CellKind cell, string name = "model.kitmodel", ulong seed = 7, int maxLength = 24, ClassifierConfig? shape = null)
     {
-        var shape = new ClassifierConfig(2, 2, cell, EmbeddingSize: 8, HiddenSize: 6, Layers: 2, Bidirectional: true, Pooling: PoolingKind.Attention);
+        shape ??= new ClassifierConfig(2, 2, cell, EmbeddingSize: 8, HiddenSize: 6, Layers: 2, Bidirectional: true, Pooling: PoolingKind.Attention);
         var bundle = OnnxSamples.WithProfile(OnnxSamples.Bundle(shape, seed: seed, maxLength: maxLength));
         string path = Path.Combine(_dir, name);
         bundle.Save(path);
@@ -30,9 +30,20 @@ public sealed class ExportCliTests : IDisposable
     [InlineData(CellKind.Gru)]
     [InlineData(CellKind.Lstm)]
     [InlineData(CellKind.Rnn)]
-    public void Scoring_the_export_equals_scoring_the_bundle(CellKind cell)
+    public void Scoring_the_export_equals_scoring_the_bundle(CellKind cell) => ExportThenScore(SavedBundle(cell));
+
+    [Theory]
+    [InlineData(EncoderKind.Convolution)]
+    [InlineData(EncoderKind.Transformer)]
+    public void Scoring_the_export_of_the_other_encoders_equals_scoring_the_bundle(EncoderKind encoder)
     {
-        string bundle = SavedBundle(cell);
+        var shape = new ClassifierConfig(2, 2, EmbeddingSize: 8, HiddenSize: 8, Layers: 2, Pooling: PoolingKind.Mean, Encoder: encoder, Heads: 2,
+            Positions: PositionKind.Learned, MaxPositions: 24);
+        ExportThenScore(SavedBundle(CellKind.Gru, shape: shape));
+    }
+
+    void ExportThenScore(string bundle)
+    {
         string onnx = Path.Combine(_dir, "model.onnx");
         string rows = OnnxSamples.RowsCsv(_dir, 900, 300);
         var export = RunKit("export", bundle, "--onnx", onnx);

@@ -8,11 +8,16 @@ namespace Kit.Tests.Onnx;
 [Collection(global::Kit.Tests.Training.EngineRandomCollection.Name)]
 public sealed class ExportGuardTests
 {
-    [Fact]
-    public void A_weight_the_graph_has_no_place_for_is_refused()
+    [Theory]
+    [InlineData(EncoderKind.Recurrent)]
+    [InlineData(EncoderKind.Convolution)]
+    [InlineData(EncoderKind.Transformer)]
+    public void A_weight_the_graph_has_no_place_for_is_refused(EncoderKind encoder)
     {
         Kit.Native.Engine.EnsureLoaded();
-        var model = new ClassifierConfig(10, 3, EmbeddingSize: 4, HiddenSize: 4).Build();
+        var model = new ClassifierConfig(10, 3, EmbeddingSize: 4, HiddenSize: 4, Encoder: encoder, Heads: 2).Build();
+        // Without the extra weight the same model exports, so the refusal below is the guard's doing.
+        Assert.NotEmpty(ClassifierGraph.Build(model, 1.0, Array.Empty<KeyValuePair<string, string>>()));
         // Stands in for a module added to the classifier later (a new encoder, a norm layer) that the exporter does not know.
         model.register_parameter("later_module_scale", new TorchSharp.Modules.Parameter(torch.ones(4)));
         var e = Assert.Throws<NotSupportedException>(() => ClassifierGraph.Build(model, 1.0, Array.Empty<KeyValuePair<string, string>>()));

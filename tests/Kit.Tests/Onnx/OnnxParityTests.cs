@@ -8,6 +8,8 @@ namespace Kit.Tests.Onnx;
 /// Outside check of the model wiring: ONNX Runtime (Microsoft.ML.OnnxRuntime 1.31.1) implements the published ONNX
 /// operator definitions (GRU, LSTM, RNN, Softmax… in ONNX Operators.md) independently of the engine, so equal
 /// probabilities on real demo rows mean the export maps gates, directions, pooling masks, head and temperature right.
+/// The same holds for the convolutional encoder (windows, zero padding) and the Transformer encoder (LayerNormalization,
+/// MatMul, Softmax with the key padding mask, positions); the demo rows differ in length, so every batch has pad steps.
 /// </summary>
 [Collection(Kit.Tests.Training.EngineRandomCollection.Name)]
 public sealed class OnnxParityTests : IDisposable
@@ -60,6 +62,72 @@ public sealed class OnnxParityTests : IDisposable
         var shape = new ClassifierConfig(2, 2, cell, EmbeddingSize: 8, HiddenSize: 6, Pooling: PoolingKind.Mean);
         var bundle = OnnxSamples.Bundle(shape);
         foreach (var text in OnnxSamples.Texts(12)) AssertParity(bundle, new[] { text }, minimumSpread: 0);
+    }
+
+    public static TheoryData<PoolingKind, bool> ConvolutionShapes()
+    {
+        var data = new TheoryData<PoolingKind, bool>();
+        foreach (var pooling in Enum.GetValues<PoolingKind>())
+            foreach (bool defaultWidths in new[] { true, false })
+                data.Add(pooling, defaultWidths);
+        return data;
+    }
+
+    [Theory]
+    [MemberData(nameof(ConvolutionShapes))]
+    public void Convolution_encoder_matches_the_engine(PoolingKind pooling, bool defaultWidths)
+    {
+        // The default widths 2..5, and a set with width 1 and one wider than the shortest demo rows (windows past a row's end).
+        var shape = new ClassifierConfig(2, 2, EmbeddingSize: 8, HiddenSize: 6, Pooling: pooling, Encoder: EncoderKind.Convolution,
+            Widths: defaultWidths ? null : new[] { 1, 3, 9 }, EmbeddingDropout: 0.3, HeadDropout: 0.3);
+        var bundle = OnnxSamples.Bundle(shape);
+        // A pad row that is not zero (padding_idx keeps it at zero only while training from scratch): the engine zeroes
+        // pad steps before the windows, so the graph must too, or windows reaching past a row's end would differ.
+        using (TorchSharp.torch.no_grad())
+            bundle.Model.state_dict()["embedding.weight"][0].fill_(0.7f);
+        AssertParity(bundle);
+    }
+
+    public static TheoryData<PoolingKind, int, PositionKind> TransformerShapes()
+    {
+        var data = new TheoryData<PoolingKind, int, PositionKind>();
+        foreach (var pooling in Enum.GetValues<PoolingKind>())
+            foreach (int layers in new[] { 1, 2 })
+                foreach (var positions in Enum.GetValues<PositionKind>())
+                    data.Add(pooling, layers, positions);
+        return data;
+    }
+
+    [Theory]
+    [MemberData(nameof(TransformerShapes))]
+    public void Transformer_encoder_matches_the_engine(PoolingKind pooling, int layers, PositionKind positions)
+    {
+        // Dropout is set so that a graph that applied it, or an engine left in training mode, would disagree.
+        var shape = new ClassifierConfig(2, 2, EmbeddingSize: 8, HiddenSize: 8, Layers: layers, Pooling: pooling, Encoder: EncoderKind.Transformer,
+            Heads: 2, Positions: positions, MaxPositions: 30, LayerDropout: 0.3, EmbeddingDropout: 0.3);
+        AssertParity(OnnxSamples.Bundle(shape, scale: 1.5));
+    }
+
+    [Theory]
+    [InlineData(EncoderKind.Convolution, PoolingKind.Attention)]
+    [InlineData(EncoderKind.Transformer, PoolingKind.Max)]
+    public void Other_encoders_with_an_mlp_head_and_one_row_at_a_time_match_too(EncoderKind encoder, PoolingKind pooling)
+    {
+        var shape = new ClassifierConfig(2, 2, EmbeddingSize: 8, HiddenSize: 8, Layers: 2, Pooling: pooling, Encoder: encoder, Heads: 4,
+            Head: HeadKind.Mlp, MlpHidden: 7);
+        var bundle = OnnxSamples.Bundle(shape, temperature: null, scale: 1.5);
+        AssertParity(bundle);
+        foreach (var text in OnnxSamples.Texts(6)) AssertParity(bundle, new[] { text }, minimumSpread: 0);
+    }
+
+    [Fact]
+    public void A_learned_position_table_shorter_than_the_rows_is_refused()
+    {
+        // The engine throws on a batch longer than its table; an exported Slice would cut it silently, so export refuses.
+        var shape = new ClassifierConfig(2, 2, EmbeddingSize: 8, HiddenSize: 8, Encoder: EncoderKind.Transformer, Heads: 2,
+            Positions: PositionKind.Learned, MaxPositions: 16);
+        var e = Assert.Throws<NotSupportedException>(() => OnnxExport.Write(OnnxSamples.Bundle(shape, maxLength: 24), Path.Combine(_dir, "x.onnx")));
+        Assert.Contains("learned position table holds 16", e.Message);
     }
 
     void AssertParity(ModelBundle bundle) => AssertParity(bundle, OnnxSamples.Texts(), minimumSpread: 0.15);
