@@ -96,7 +96,7 @@ internal static class ScoreCommand
     internal static ScoredRows WithBundle(ModelBundle bundle, IReadOnlyList<string> texts)
     {
         var s = TextScorer.Score(bundle, texts);
-        var counts = BundleDrift.Count(bundle, texts);
+        var counts = BundleDrift.Count(s);
         return new ScoredRows(bundle.Labels.Names, bundle.MaxLength, bundle.Truncation.ToString(), s.Predicted, s.Probabilities, s.Flags,
             s.Tokens, counts.Raw, counts.Unknown, s.Truncated, bundle.Profile);
     }

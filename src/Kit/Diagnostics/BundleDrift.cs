@@ -14,21 +14,11 @@ public static class BundleDrift
     {
         if (bundle.Profile is null) return null;
         var scores = TextScorer.Score(bundle, texts);
-        var counts = Count(bundle, texts);
-        return Compare(bundle.Profile, scores.Probabilities, scores.Predicted, scores.Tokens, counts);
+        return Compare(bundle.Profile, scores.Probabilities, scores.Predicted, scores.Tokens, Count(scores));
     }
 
-    /// <summary>Raw token counts and unknown tokens among those kept, encoded exactly as the bundle encodes for scoring.</summary>
-    public static TokenCounts Count(ModelBundle bundle, IReadOnlyList<string> texts)
-    {
-        var tokenizer = bundle.Tokenizer.Create();
-        var (set, _) = Encoder.Encode(texts, new int[texts.Count], tokenizer, bundle.Vocabulary, bundle.MaxLength, bundle.Truncation);
-        var raw = texts.Select(t => tokenizer.Split(t).Count).ToArray();
-        var unknown = new int[texts.Count];
-        for (int i = 0; i < texts.Count; i++)
-            foreach (int id in set[i]) if (id == Vocabulary.UnknownId) unknown[i]++;
-        return new TokenCounts(raw, unknown);
-    }
+    /// <summary>Raw token counts and unknown tokens among those kept, as the bundle's scorer counted them.</summary>
+    public static TokenCounts Count(TextScores scores) => new(scores.RawTokens, scores.UnknownTokens);
 
     /// <summary>The comparison itself, from scores of either path (engine or ONNX Runtime); flagged rows (null probabilities) count for lengths and tokens only.</summary>
     public static DriftReport Compare(TrainingProfile profile, IReadOnlyList<double[]?> probabilities, IReadOnlyList<int> predicted,

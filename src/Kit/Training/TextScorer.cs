@@ -18,6 +18,10 @@ public sealed record TextScores(int[] Predicted, double[]?[] Probabilities, Scor
 {
     public int Count => Predicted.Length;
     public int FlaggedCount => Flags.Count(f => f != ScoreFlag.None);
+    /// <summary>Tokens of each row before truncation (what a drift check compares lengths by); empty when not counted.</summary>
+    public int[] RawTokens { get; init; } = [];
+    /// <summary>Unknown tokens among those kept, per row; empty when not counted.</summary>
+    public int[] UnknownTokens { get; init; } = [];
 }
 
 /// <summary>Encodes texts as the bundle's training run did and scores them with its model (and temperature, when set).</summary>
@@ -26,18 +30,27 @@ public static class TextScorer
     public static TextScores Score(ModelBundle bundle, IReadOnlyList<string> texts, int batchSize = 512)
     {
         var tokenizer = bundle.Tokenizer.Create();
-        var (set, _) = Encoder.Encode(texts, new int[texts.Count], tokenizer, bundle.Vocabulary, bundle.MaxLength, bundle.Truncation);
+        // Split once: the same pieces give the encoded rows, the truncation marks and the drift counts.
+        var pieces = texts.Select(tokenizer.Split).ToArray();
+        var (set, _) = Encoder.EncodePieces(pieces, new int[texts.Count], bundle.Vocabulary, bundle.MaxLength, bundle.Truncation);
         var flags = new ScoreFlag[texts.Count];
         var truncated = new bool[texts.Count];
         var tokens = new int[texts.Count];
+        var raw = new int[texts.Count];
+        var unknown = new int[texts.Count];
         var usable = new List<int>(texts.Count);
         for (int i = 0; i < texts.Count; i++)
         {
             var seq = set[i];
             tokens[i] = seq.Length;
-            truncated[i] = tokenizer.Split(texts[i]).Count > bundle.MaxLength;
+            raw[i] = pieces[i].Count;
+            truncated[i] = raw[i] > bundle.MaxLength;
             bool anyKnown = false;
-            foreach (int id in seq) anyKnown |= id != BatchBuilder.UnknownId;
+            foreach (int id in seq)
+            {
+                anyKnown |= id != BatchBuilder.UnknownId;
+                if (id == BatchBuilder.UnknownId) unknown[i]++;
+            }
             flags[i] = seq.Length == 0 ? ScoreFlag.Empty : anyKnown ? ScoreFlag.None : ScoreFlag.AllUnknown;
             if (flags[i] == ScoreFlag.None) usable.Add(i);
         }
@@ -53,6 +66,6 @@ public static class TextScorer
                 predicted[usable[k]] = Array.IndexOf(p[k], p[k].Max());
             }
         }
-        return new TextScores(predicted, probabilities, flags, tokens, truncated);
+        return new TextScores(predicted, probabilities, flags, tokens, truncated) { RawTokens = raw, UnknownTokens = unknown };
     }
 }
