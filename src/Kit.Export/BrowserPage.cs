@@ -60,6 +60,21 @@ public sealed class BrowserPage : IAsyncDisposable
             r.GetProperty("errors").EnumerateArray().Select(e => e.GetString() ?? "").ToArray());
     }
 
+    /// <summary>Every chart's text boxes as laid out on screen (tick labels, titles, annotations, legend); see <see cref="ChartLayout.Problems"/>.</summary>
+    public async Task<IReadOnlyList<ChartLayout>> LayoutAsync()
+    {
+        string json = await _page.EvaluateFunctionAsync<string>(ChartLayout.Script).ConfigureAwait(false);
+        using var doc = JsonDocument.Parse(json);
+        static TextBox Box(JsonElement e) => new(e[0].GetDouble(), e[1].GetDouble(), e[2].GetDouble(), e[3].GetDouble());
+        static ChartText[] Texts(JsonElement list) => list.EnumerateArray()
+            .Select(t => new ChartText(t.GetProperty("kind").GetString()!, t.GetProperty("group").GetString()!, t.GetProperty("text").GetString()!, Box(t.GetProperty("box"))))
+            .ToArray();
+        return doc.RootElement.EnumerateArray()
+            .Select(c => new ChartLayout(c.GetProperty("index").GetInt32(), c.GetProperty("name").GetString()!, Box(c.GetProperty("frame")),
+                Texts(c.GetProperty("ticks")), Texts(c.GetProperty("labels"))))
+            .ToArray();
+    }
+
     /// <summary>Text of every element matching a CSS selector (e.g. tick labels), as the browser shows it.</summary>
     public async Task<string[]> TextsAsync(string selector) =>
         await _page.EvaluateFunctionAsync<string[]>("s => Array.from(document.querySelectorAll(s)).map(e => e.textContent)", selector).ConfigureAwait(false);
