@@ -66,8 +66,11 @@ public sealed class BrowserPage : IAsyncDisposable
         string json = await _page.EvaluateFunctionAsync<string>(ChartLayout.Script).ConfigureAwait(false);
         using var doc = JsonDocument.Parse(json);
         static TextBox Box(JsonElement e) => new(e[0].GetDouble(), e[1].GetDouble(), e[2].GetDouble(), e[3].GetDouble());
+        static TextQuad Quad(JsonElement e) => new(e[0].GetDouble(), e[1].GetDouble(), e[2].GetDouble(), e[3].GetDouble(),
+            e[4].GetDouble(), e[5].GetDouble(), e[6].GetDouble(), e[7].GetDouble());
         static ChartText[] Texts(JsonElement list) => list.EnumerateArray()
-            .Select(t => new ChartText(t.GetProperty("kind").GetString()!, t.GetProperty("group").GetString()!, t.GetProperty("text").GetString()!, Box(t.GetProperty("box"))))
+            .Select(t => new ChartText(t.GetProperty("kind").GetString()!, t.GetProperty("group").GetString()!, t.GetProperty("text").GetString()!,
+                Quad(t.GetProperty("quad")), t.GetProperty("font").GetDouble()))
             .ToArray();
         return doc.RootElement.EnumerateArray()
             .Select(c => new ChartLayout(c.GetProperty("index").GetInt32(), c.GetProperty("name").GetString()!, Box(c.GetProperty("frame")),

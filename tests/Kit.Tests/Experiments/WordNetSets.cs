@@ -52,6 +52,50 @@ internal static class WordNetSets
         return order.Where(g => byText[g].Count == 1).Select(g => (g, Parts[byText[g].Single()])).ToList();
     }
 
+    /// <summary>
+    /// (c) gloss → lexicographer file: the 45 semantic files WordNet's synsets are filed under (noun.artifact,
+    /// verb.motion, adj.all …; the lex_filenum field of each data-file line, wndb(5WN)), non-instance synsets only,
+    /// a gloss text filed under two files left out. Names come from the package's lexnames(5WN) manual page when it is
+    /// installed, otherwise the files are named by number.
+    /// </summary>
+    public static List<(string Text, string Label)> GlossesByFile(string folder)
+    {
+        var names = LexicographerFileNames();
+        var byText = new Dictionary<string, HashSet<int>>(StringComparer.Ordinal);
+        var order = new List<string>();
+        for (int p = 0; p < Files.Length; p++)
+            foreach (var line in File.ReadLines(Path.Combine(folder, "data." + Files[p]), Encoding.Latin1))
+            {
+                if (line.StartsWith("  ", StringComparison.Ordinal)) continue;
+                int bar = line.IndexOf(" | ", StringComparison.Ordinal);
+                if (bar < 0) throw new InvalidDataException($"{folder}/data.{Files[p]}: a synset line without a gloss: {line[..Math.Min(60, line.Length)]}");
+                var fields = line[..bar].Split(' ');
+                if (fields.Contains("@i")) continue;
+                int file = int.Parse(fields[1], System.Globalization.CultureInfo.InvariantCulture);
+                string gloss = line[(bar + 3)..].Trim();
+                if (!byText.TryGetValue(gloss, out var files)) { byText[gloss] = files = []; order.Add(gloss); }
+                files.Add(file);
+            }
+        return order.Where(g => byText[g].Count == 1)
+            .Select(g => { int f = byText[g].Single(); return (g, names.TryGetValue(f, out var n) ? n : $"lexfile-{f:D2}"); }).ToList();
+    }
+
+    /// <summary>Number → name of WordNet's lexicographer files, read from Debian's lexnames(5WN) page (empty when absent).</summary>
+    static Dictionary<int, string> LexicographerFileNames()
+    {
+        var names = new Dictionary<int, string>();
+        const string page = "/usr/share/man/man5/lexnames.5WN.gz";
+        if (!File.Exists(page)) return names;
+        using var gz = new System.IO.Compression.GZipStream(File.OpenRead(page), System.IO.Compression.CompressionMode.Decompress);
+        using var reader = new StreamReader(gz, Encoding.Latin1);
+        while (reader.ReadLine() is { } line)
+        {
+            var m = System.Text.RegularExpressions.Regex.Match(line, @"^(\d\d)\t(\S+)\s");
+            if (m.Success) names[int.Parse(m.Groups[1].Value, System.Globalization.CultureInfo.InvariantCulture)] = m.Groups[2].Value;
+        }
+        return names;
+    }
+
     public static List<(string Text, string Label)> Lemmas(string folder)
     {
         var parts = new Dictionary<string, HashSet<int>>(StringComparer.Ordinal);
