@@ -70,7 +70,7 @@ public sealed class RealSizeBrowserTests(ITestOutputHelper output) : IDisposable
         string results = Path.Combine(_dir, "compare");
         var (code, stdout, stderr) = KitCli.Run([
             "compare", KitCli.DemoHostnames, "--group", "group", "--sample", "3000", "--epochs", "2", "--embed", "16", "--hidden", "32",
-            "--grid", "cell=gru,lstm,rnn; bidirectional=false,true", "--out", results], timeoutSeconds: 600);
+            "--grid", "cell=gru,lstm,rnn; bidirectional=false,true", "--out", results], timeoutSeconds: 1200);
         output.WriteLine(stdout);
         Assert.True(code == 0, $"kit compare exited {code}\n{stderr}\n{stdout}");
         string page = Path.Combine(Artifacts(), "six-config-comparison.html");
