@@ -11,6 +11,7 @@ public static class MeasureCatalog
         new Batching.PadWasteMeasure(),
         new Batching.EpochSpeedupMeasure(),
         new Training.TrainingRatioMeasure(),
+        new Training.EncoderThroughputMeasure(),
         new Training.ThroughputCeilingMeasure(),
         new Onnx.OnnxScoringMeasure(),
     };
