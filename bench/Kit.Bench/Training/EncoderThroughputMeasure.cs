@@ -70,7 +70,7 @@ public sealed class EncoderThroughputMeasure : IMeasure
         Trainer.Fit(model, set, null, options);
         double train = set.Count / clock.Elapsed.TotalSeconds;
         clock.Restart();
-        Scoring.Logits(model, set, ScoreBatch);
+        Kit.Training.Scoring.Logits(model, set, ScoreBatch);
         double score = set.Count / clock.Elapsed.TotalSeconds;
         return (train, score);
     }
