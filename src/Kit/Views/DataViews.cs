@@ -78,9 +78,6 @@ public static class DataViews
     public static StackView Split(SplitSummary s) =>
         Split(s, s.ClassNames ?? Enumerable.Range(0, s.Parts.Count == 0 ? 0 : s.Parts[0].ClassCounts.Length).Select(c => c.ToString(Inv)).ToArray());
 
-    /// <summary>Above this many classes the class-share chart turns horizontal, largest class first.</summary>
-    public const int ManyClasses = 12;
-
     public static StackView Split(SplitSummary s, IReadOnlyList<string> classNames)
     {
         string table = Html.Table(new[] { "part", "rows", "share of rows", "median length", "90th pct length", "max length" },
@@ -89,50 +86,25 @@ public static class DataViews
                 p.Part, p.Rows.ToString("N0", Inv), Html.Pct(s.Rows == 0 ? double.NaN : (double)p.Rows / s.Rows),
                 Html.Num(p.Lengths.Median, 1), Html.Num(p.Lengths.P90, 1), p.Lengths.Count == 0 ? "–" : p.Lengths.Max.ToString(Inv),
             }), $"{s.Method}, seed {s.Seed}");
-        bool many = classNames.Count > ManyClasses;
-        // Many classes: horizontal bars, classes down the side (largest first), so every name stays level and readable.
-        int[] order = many
-            ? Enumerable.Range(0, classNames.Count).OrderByDescending(c => s.Parts.Sum(p => c < p.ClassCounts.Length ? p.ClassCounts[c] : 0)).ThenBy(c => c).ToArray()
-            : Enumerable.Range(0, classNames.Count).ToArray();
-        var names = order.Select(c => classNames[c]).ToArray();
         var traces = new JsonArray();
         for (int i = 0; i < s.Parts.Count; i++)
         {
             var part = s.Parts[i];
-            var shares = Figure.Numbers(order.Select(c => c < part.Proportions.Length ? part.Proportions[c] : 0));
             traces.Add(new JsonObject
             {
-                ["type"] = "bar", ["name"] = Figure.Text(part.Part), ["orientation"] = many ? "h" : "v",
-                [many ? "y" : "x"] = Figure.Texts(names), [many ? "x" : "y"] = shares,
-                ["customdata"] = Figure.Numbers(order.Select(c => c < part.ClassCounts.Length ? part.ClassCounts[c] : 0)),
+                ["type"] = "bar", ["name"] = Figure.Text(part.Part),
+                ["x"] = Figure.Texts(classNames), ["y"] = Figure.Numbers(part.Proportions),
+                ["customdata"] = Figure.Numbers(part.ClassCounts),
                 ["marker"] = new JsonObject { ["color"] = Theme.Colour(i) },
-                ["hovertemplate"] = many
-                    ? $"{Figure.Text(part.Part)} · %{{y}}<br>%{{x:.1%}} of the part (%{{customdata}} rows)<extra></extra>"
-                    : $"{Figure.Text(part.Part)} · %{{x}}<br>%{{y:.1%}} of the part (%{{customdata}} rows)<extra></extra>",
+                ["hovertemplate"] = $"{Figure.Text(part.Part)} · %{{x}}<br>%{{y:.1%}} of the part (%{{customdata}} rows)<extra></extra>",
             });
         }
         double worst = WorstShareGap(s);
-        string title = $"Class shares per part — the largest gap between parts is {Html.Pct(worst)} points";
-        JsonObject layout;
-        if (many)
-        {
-            // Rows of 4 px per bar and 6 px between classes; the left margin fits the longest name (about 0.6 em per character at 12 px).
-            int height = 140 + classNames.Count * (4 * s.Parts.Count + 6);
-            layout = Theme.Layout(title, "share of the part's rows (fraction)", "class", height: height);
-            layout["xaxis"]!["tickformat"] = ".0%";
-            layout["yaxis"]!["autorange"] = "reversed";
-            layout["yaxis"]!["automargin"] = true;
-            layout["margin"]!["l"] = 24 + (int)Math.Ceiling(7.2 * names.Max(n => n.Length));
-            layout["barmode"] = "group";
-            layout["bargap"] = 0.25;
-        }
-        else
-        {
-            layout = Theme.Layout(title, "class", "share of the part's rows (fraction)", height: 400);
-            layout["barmode"] = "group";
-            layout["yaxis"]!["tickformat"] = ".0%";
-            layout["xaxis"]!["tickangle"] = -30;
-        }
+        var layout = Theme.Layout($"Class shares per part — the largest gap between parts is {Html.Pct(worst)} points",
+            "class", "share of the part's rows (fraction)", height: 400);
+        layout["barmode"] = "group";
+        layout["yaxis"]!["tickformat"] = ".0%";
+        layout["xaxis"]!["tickangle"] = -30;
         var chart = new ChartView("Class shares per part", traces, layout) { Caption = "Bars of one class should be near level; a part that lacks a class cannot measure it." };
         return new StackView("Split summary", new IView[] { new TextView("", table), chart });
     }
