@@ -117,14 +117,14 @@ public sealed class SearchSpace
             }
             int dots = range.IndexOf("..", StringComparison.Ordinal);
             string loText = range[..dots].Trim(), hiText = range[(dots + 2)..].Trim();
-            if (!double.TryParse(loText, NumberStyles.Float, inv, out double lo) || !double.TryParse(hiText, NumberStyles.Float, inv, out double hi)
-                || !double.IsFinite(lo) || !double.IsFinite(hi))
-                throw new ArgumentException($"grid part '{part}': a range is low..high with two numbers (e.g. 1e-3..1e-2)");
             if (setting is null) SweepConfig.Of((key, loText)); // names the unknown or data-shaping key
             bool integer = setting!.Accepts == "a positive integer";
             bool real = setting.Accepts is "a positive number" or "a non-negative number" or "a rate in [0, 1)" or "none or a rate in [0, 1)";
             if (!integer && !real)
                 throw new ArgumentException($"grid part '{part}': {key} takes {setting.Accepts}, so it needs a list of values, not a range");
+            if (!double.TryParse(loText, NumberStyles.Float, inv, out double lo) || !double.TryParse(hiText, NumberStyles.Float, inv, out double hi)
+                || !double.IsFinite(lo) || !double.IsFinite(hi))
+                throw new ArgumentException($"grid part '{part}': a range is low..high with two numbers (e.g. 1e-3..1e-2)");
             if (!(lo < hi)) throw new ArgumentException($"grid part '{part}': the low end {loText} must be below the high end {hiText}");
             if (log && lo <= 0) throw new ArgumentException($"grid part '{part}': a :log range needs a positive low end");
             var axis = new RangeAxis(key, lo, hi, log, integer);
