@@ -13,5 +13,6 @@ public static class MeasureCatalog
         new Training.TrainingRatioMeasure(),
         new Training.ThroughputCeilingMeasure(),
         new Onnx.OnnxScoringMeasure(),
+        new Experiments.SearchMeasure(),
     };
 }
