@@ -66,7 +66,7 @@ public sealed class SearchSpace
     /// The space a search uses when no grid is given: every encoder family, a hidden size from 32 to 128, last or max
     /// pooling, dropout up to one half and a learning rate between 0.001 and 0.01 (each factor equally likely).
     /// Chosen by measurement on the demo and WordNet sets (docs/benchmarks.md, "Search defaults"): with hidden sizes
-    /// up to 256 the first rung's wide Transformer and LSTM configs spent a 3-minute budget on their own, and the
+    /// up to 256 the first rung's wide Transformer configs spent a 3-minute budget on their own, and the
     /// search stopped at one epoch below the linear baseline on two of three sets; this space finished every rung
     /// and beat the linear baseline on all three.
     /// </summary>
