@@ -14,5 +14,6 @@ public static class MeasureCatalog
         new Training.EncoderThroughputMeasure(),
         new Training.ThroughputCeilingMeasure(),
         new Onnx.OnnxScoringMeasure(),
+        new Experiments.SearchMeasure(),
     };
 }

@@ -14,7 +14,8 @@ namespace Kit.Cli.Commands;
 /// </summary>
 internal static class CompareCommand
 {
-    internal sealed record Settings(RunSpec Base, string? Grid, int Seeds, int? Folds, string Out, int Workers, string? Shard, bool Serve);
+    internal sealed record Settings(RunSpec Base, string? Grid, int Seeds, int? Folds, string Out, int Workers, string? Shard, bool Serve,
+        int? Search = null, string? Budget = null);
 
     public static Command Build()
     {
@@ -28,13 +29,20 @@ internal static class CompareCommand
         var output = new Option<string>("--out") { Description = "Results folder (store, sweep description, report)", Required = true };
         var workers = new Option<int>("--workers") { Description = "Worker processes sharing the cores", DefaultValueFactory = _ => 1 };
         var shard = new Option<string?>("--shard") { Description = "Run only share i of N (i/N), or take it from a job array (auto, auto/N)" };
+        var search = new Option<int?>("--search")
+        {
+            Description = "Draw N configs from the grid (lists and ranges such as hidden=32..256:log; default space without --grid) " +
+                          "and run them by successive halving up to --epochs, promoting by validation accuracy",
+        };
+        var budget = new Option<string?>("--budget") { Description = "Wall-clock cap of a search (90s, 15m, 1h): rungs shrink or stop to fit" };
         var serve = new Option<bool>("--serve") { Description = "Internal: act as a worker process reading run ids on standard input", Hidden = true };
         var command = new Command("compare", "Sweep configs × seeds × folds against n-gram naive Bayes and logistic regression baselines, crash-safe and resumable.") { data };
         var shared = RunOptions.AddTo(command);
-        foreach (var option in new Option[] { grid, seeds, folds, output, workers, shard, serve }) command.Options.Add(option);
+        foreach (var option in new Option[] { grid, seeds, folds, output, workers, shard, search, budget, serve }) command.Options.Add(option);
         command.SetAction(parse => CliErrors.Guard(() => Run(new Settings(
             shared.Read(parse, RunSettings.Defaults with { DataPath = parse.GetValue(data)! }), parse.GetValue(grid), parse.GetValue(seeds),
-            parse.GetValue(folds), parse.GetValue(output)!, parse.GetValue(workers), parse.GetValue(shard), parse.GetValue(serve)),
+            parse.GetValue(folds), parse.GetValue(output)!, parse.GetValue(workers), parse.GetValue(shard), parse.GetValue(serve),
+            parse.GetValue(search), parse.GetValue(budget)),
             Environment.GetCommandLineArgs()[1..])));
         return command;
     }
@@ -43,11 +51,27 @@ internal static class CompareCommand
     {
         SweepPlan plan;
         Shard shard;
+        SearchSettings? search = null;
         try
         {
             if (s.Workers < 1) throw new ArgumentException($"--workers {s.Workers}: at least one worker");
+            if (s.Budget is not null && s.Search is null) throw new ArgumentException("--budget caps a search; add --search N");
             int threads = s.Base.Training.Threads > 0 ? s.Base.Training.Threads : Math.Max(1, Environment.ProcessorCount / s.Workers);
-            plan = Plan(s, threads);
+            if (s.Search is int n)
+            {
+                if (s.Workers > 1) throw new ArgumentException("--search runs in this process (use --shard i/N for parallel searches); leave out --workers");
+                if (s.Folds is not null) throw new ArgumentException("--search runs on one holdout split; leave out --folds");
+                if (s.Seeds != 1) throw new ArgumentException("--search trains one seed per config; leave out --seeds");
+                search = new SearchSettings
+                {
+                    Configs = n, Space = s.Grid is null ? SearchSpace.Default : SearchSpace.Parse(s.Grid),
+                    Budget = s.Budget is null ? null : SuccessiveHalving.ParseBudget(s.Budget),
+                };
+                var spec = s.Base with { Training = s.Base.Training with { Threads = threads } };
+                spec.Training.Validate();
+                plan = SearchRunner.Plan(spec, search);
+            }
+            else plan = Plan(s, threads);
             shard = s.Shard is null ? Shard.Whole : Shard.Parse(s.Shard);
         }
         catch (ArgumentException e)
@@ -56,6 +80,7 @@ internal static class CompareCommand
             return CliErrors.BadInput;
         }
         var sweep = Sweep.Prepare(plan);
+        if (search is not null) return RunSearch(sweep, search, s.Out, shard);
         if (s.Serve) return SweepWorker.Serve(sweep, Console.In, Console.Out, Console.Error);
 
         var all = plan.Runs();
@@ -94,6 +119,40 @@ internal static class CompareCommand
             return 0;
         }
         return ReportCommand.Write(s.Out);
+    }
+
+    static int RunSearch(Sweep sweep, SearchSettings search, string dir, Shard shard)
+    {
+        var schedule = SuccessiveHalving.Schedule(search.Configs, sweep.Plan.Base.Training.Epochs, search.Eta);
+        Console.Error.WriteLine($"compare: search of {search.Describe()}; rungs planned " +
+                                string.Join(", ", schedule.Select(r => $"{r.Configs} × {r.Epochs} epoch(s)")) + $"; shard {shard}; store {dir}");
+        SearchOutcome outcome;
+        try
+        {
+            outcome = SearchRunner.Run(sweep, search, dir, shard, new SyncProgress(line => Console.Error.WriteLine(line)));
+        }
+        catch (ArgumentException e)
+        {
+            Console.Error.WriteLine($"compare: {e.Message}");
+            return CliErrors.BadInput;
+        }
+        foreach (var note in outcome.Notes) Console.Error.WriteLine($"note: {note}");
+        Console.WriteLine($"shard {shard}: {outcome.Ran} run(s) finished now, {outcome.AlreadyDone} already in the store");
+        if (outcome.Stop is not null) Console.WriteLine($"the budget cut the search short: {outcome.Stop.Note}");
+        Console.WriteLine($"chosen: {outcome.Choice.Configs[0]} ({outcome.Choice.Note})");
+        Console.WriteLine($"chosen model: {outcome.ModelPath} (score new rows: kit score {outcome.ModelPath} DATA --out FILE.csv)");
+        if (!shard.IsWhole)
+        {
+            Console.WriteLine($"kit report {dir} writes the report (every shard has finished the search when this one has)");
+            return 0;
+        }
+        return ReportCommand.Write(dir);
+    }
+
+    /// <summary>Writes each line at once, on the reporting thread (Progress&lt;T&gt; would post them later).</summary>
+    sealed class SyncProgress(Action<string> write) : IProgress<string>
+    {
+        public void Report(string value) => write(value);
     }
 
     internal static SweepPlan Plan(Settings s, int threads)

@@ -8,6 +8,7 @@ public static class ComparisonReport
     public static IReadOnlyList<IView> Views(ComparisonRecord c) =>
     [
         ComparisonViews.Summary(c),
+        .. SearchViews.For(c),
         ComparisonViews.AccuracyByConfig(c),
         ComparisonViews.Paired(c),
         ComparisonViews.AccuracyVsSize(c),

@@ -72,7 +72,7 @@ public sealed class RunSettingsTests
         Assert.All(shared, o => Assert.Contains(o, compare));
         // Beyond the shared set, each has only its own few.
         Assert.Equal(["--baselines", "--out", "--resume"], train.Except(shared).Except(["--help"]).Order());
-        Assert.Equal(["--folds", "--grid", "--out", "--seeds", "--shard", "--workers"], compare.Except(shared).Except(["--help"]).Order());
+        Assert.Equal(["--budget", "--folds", "--grid", "--out", "--search", "--seeds", "--shard", "--workers"], compare.Except(shared).Except(["--help"]).Order());
         Assert.All(RunSettings.All.Where(s => s.Scope == SettingScope.Data), s => Assert.Contains("--" + s.Key, inspect));
         Assert.DoesNotContain("--epochs", inspect);
     }

@@ -11,6 +11,9 @@ public sealed record ComparisonRecord(IReadOnlyList<ConfigSummary> Configs, IRea
 {
     public ConfigSummary Best => Configs[0];
 
+    /// <summary>The rungs of the search this comparison came from (its configs are then the last rung's and the baselines); null for a grid sweep.</summary>
+    public SearchRecord? Search { get; init; }
+
     public static ComparisonRecord Build(IReadOnlyList<RunRecord> runs, IEnumerable<string>? notes = null)
     {
         if (runs.Count == 0) throw new ArgumentException("no finished runs to compare");

@@ -26,9 +26,12 @@ public sealed class ResultsWriter : IDisposable
         _stream.Seek(0, SeekOrigin.End);
     }
 
-    public void Append(RunRecord record)
+    public void Append(RunRecord record) => AppendLine(record.ToJsonLine());
+
+    /// <summary>One line of JSON (a search's decisions use the same crash-safe append as its runs).</summary>
+    internal void AppendLine(string json)
     {
-        var bytes = Encoding.UTF8.GetBytes(record.ToJsonLine() + "\n");
+        var bytes = Encoding.UTF8.GetBytes(json + "\n");
         lock (_gate)
         {
             _stream.Write(bytes);

@@ -55,6 +55,10 @@ public sealed record RunRecord
     public required int[] TestLabels { get; init; }
     public required int[] Predicted { get; init; }
     public RunTiming? Timing { get; init; }
+    /// <summary>Accuracy on the validation part: what a search promotes by and picks its final model by (never the test part).</summary>
+    public double? ValidationAccuracy { get; init; }
+    /// <summary>The successive-halving rung (0 = first) of a search run; null for a grid sweep's runs and for baselines.</summary>
+    public int? Rung { get; init; }
 
     public RunKey Key => new(Config, Seed, Fold, Folds);
 

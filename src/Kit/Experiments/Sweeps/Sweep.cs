@@ -37,11 +37,18 @@ public sealed class Sweep
         new(plan, table ?? TableReader.Read(plan.Base.DataPath, plan.Base.Columns));
 
     /// <summary>Runs one config × seed × fold and scores it on that fold's test part.</summary>
-    public RunRecord Execute(RunKey key, IProgress<TrainingProgress>? progress = null, CancellationToken cancel = default)
+    public RunRecord Execute(RunKey key, IProgress<TrainingProgress>? progress = null, CancellationToken cancel = default) =>
+        Execute(key, Plan.ConfigNamed(key.Config), progress, cancel);
+
+    /// <summary>
+    /// Runs <paramref name="config"/> (which a search builds per rung, so it need not be one of the plan's configs);
+    /// <paramref name="trained"/> sees a neural run's outcome before it is dropped (a search keeps its models).
+    /// </summary>
+    internal RunRecord Execute(RunKey key, SweepConfig config, IProgress<TrainingProgress>? progress = null, CancellationToken cancel = default,
+        Action<RunOutcome>? trained = null)
     {
         if (key.Folds != Splits.Count || key.Fold < 1 || key.Fold > Splits.Count)
             throw new ArgumentException($"run {key.Id} does not fit this sweep ({Splits.Count} fold(s))");
-        var config = Plan.ConfigNamed(key.Config);
         var split = Splits[key.Fold - 1];
         var tokens = Data.Pieces;
         var labels = Data.LabelIds;
@@ -53,17 +60,37 @@ public sealed class Sweep
                 Labels.Count, Plan.BaselineNgrams, Plan.NaiveBayesSmoothing, Plan.LinearL2);
             double trainSeconds = clock.Elapsed.TotalSeconds;
             var probs = baseline.Probabilities(split.Test.Select(p => tokens[p]).ToArray());
-            return Score(key, config, baseline.Description, split, probs, baseline.ParameterCount, [], 0, new RunTiming(trainSeconds, clock.Elapsed.TotalSeconds, 1));
+            // Scored on the validation part too, so a search's final pick compares like with like.
+            double? validation = split.Validation.Length == 0 ? null
+                : AccuracyOf(baseline.Probabilities(split.Validation.Select(p => tokens[p]).ToArray()), split.Validation.Select(p => labels[p]).ToArray());
+            return Score(key, config, baseline.Description, split, probs, baseline.ParameterCount, [], 0, new RunTiming(trainSeconds, clock.Elapsed.TotalSeconds, 1))
+                with { ValidationAccuracy = validation };
         }
         var spec = config.Apply(Plan.Base);
         spec = spec with { Training = spec.Training with { Seed = key.Seed } };
         var run = FoldRun.Execute(spec, Data, key.Fold, progress, cancel);
+        trained?.Invoke(run);
         var epochs = run.History.Epochs.Select(e => new EpochPoint(e.Epoch, e.TrainLoss, e.TrainAccuracy, e.ValidationLoss, e.ValidationAccuracy)).ToArray();
         string description = string.Create(inv,
             $"{Kit.Models.ModelDescription.Of(run.Config)}, {spec.Training.Epochs} epochs, batch {spec.Training.BatchSize}, lr {spec.Training.LearningRate}");
         var timing = new RunTiming(run.History.Epochs.Sum(e => e.Seconds), clock.Elapsed.TotalSeconds,
             spec.Training.Threads > 0 ? spec.Training.Threads : Environment.ProcessorCount);
-        return Score(key, config, description, split, run.TestProbabilities, run.Model.ParameterCount(), epochs, run.History.BestEpoch, timing);
+        double? validationAccuracy = split.Validation.Length == 0 ? null : AccuracyOf(run.ValidationLogits, run.Fold.Validation.Labels);
+        return Score(key, config, description, split, run.TestProbabilities, run.Model.ParameterCount(), epochs, run.History.BestEpoch, timing)
+            with { ValidationAccuracy = validationAccuracy };
+    }
+
+    /// <summary>Share of rows whose highest score (probability or logit) is the true class; ties go to the lower class id.</summary>
+    static double AccuracyOf(double[][] scores, int[] labels)
+    {
+        int hits = 0;
+        for (int i = 0; i < labels.Length; i++)
+        {
+            int best = 0;
+            for (int c = 1; c < scores[i].Length; c++) if (scores[i][c] > scores[i][best]) best = c;
+            if (best == labels[i]) hits++;
+        }
+        return labels.Length == 0 ? double.NaN : (double)hits / labels.Length;
     }
 
     RunRecord Score(RunKey key, SweepConfig config, string model, Split split, double[][] probabilities, long parameters,

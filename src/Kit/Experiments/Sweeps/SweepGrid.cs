@@ -17,6 +17,8 @@ public static class SweepGrid
             string key = part[..eq].Trim();
             var values = part[(eq + 1)..].Split(',', StringSplitOptions.RemoveEmptyEntries | StringSplitOptions.TrimEntries);
             if (values.Length == 0) throw new ArgumentException($"grid part '{part}' lists no values");
+            if (values.Any(v => v.Contains("..", StringComparison.Ordinal)))
+                throw new ArgumentException($"grid part '{part}' is a range; ranges are drawn from only by a search (add --search N), a grid lists values");
             if (axes.Any(a => string.Equals(a.Key, key, StringComparison.OrdinalIgnoreCase)))
                 throw new ArgumentException($"grid key '{key}' appears twice");
             if (values.Distinct(StringComparer.OrdinalIgnoreCase).Count() != values.Length)

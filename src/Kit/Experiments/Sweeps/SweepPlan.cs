@@ -30,6 +30,8 @@ public sealed record SweepPlan
     /// <summary>Length bins for the by-length comparison: quantiles of all rows' token counts, shared by every run.</summary>
     public int LengthBins { get; init; } = 5;
     public int CalibrationBins { get; init; } = 10;
+    /// <summary>For a search: its space, count, η and budget in words (part of what a results folder must match); null for a grid sweep.</summary>
+    public string? Search { get; init; }
 
     public IReadOnlyList<SweepConfig> AllConfigs => [.. Configs, .. SweepConfig.Baselines];
 
@@ -85,7 +87,11 @@ public sealed record SweepPlan
             length_bins = LengthBins,
             calibration_bins = CalibrationBins,
         };
-        return JsonSerializer.Serialize(doc, DescribeJson);
+        // A grid sweep's description is left exactly as it was, so existing folders still match.
+        if (Search is null) return JsonSerializer.Serialize(doc, DescribeJson);
+        var node = JsonSerializer.SerializeToNode(doc, DescribeJson)!.AsObject();
+        node["search"] = Search;
+        return node.ToJsonString(DescribeJson);
     }
 
     public static string Sha256Of(string path)
