@@ -45,26 +45,35 @@ public static class CalibrationViews
         };
     }
 
-    /// <summary>One small reliability panel per class: p(class) against how often the class is the true one.</summary>
+    /// <summary>
+    /// One small reliability panel per class: p(class) against how often the class is the true one. With many
+    /// classes, panels only for the <see cref="ManyClasses.ReliabilityPanels"/> classes of largest ECE
+    /// (<see cref="ManyClassViews.ReliabilityTable"/> lists them all).
+    /// </summary>
     public static ChartView PerClass(CalibrationReport r, string split = "test")
     {
-        int k = r.PerClass.Count;
+        bool many = ManyClasses.Apply(r.PerClass.Count);
+        int[] shown = many ? ManyClassViews.ByEce(r).Take(ManyClasses.ReliabilityPanels).ToArray() : Enumerable.Range(0, r.PerClass.Count).ToArray();
+        int k = shown.Length;
         int cols = Math.Min(4, k), rows = (k + cols - 1) / cols;
         // Rows need room for the x titles of one row plus the panel titles of the next.
         const double gapX = 0.06, gapY = 0.2;
         double w = (1 - gapX * (cols - 1)) / cols, h = (1 - gapY * (rows - 1)) / rows;
         var traces = new JsonArray();
-        var layout = Theme.Layout($"Per-class reliability ({split} split) — classwise ECE {Html.Pct(r.ClasswiseEce)}; each panel's title gives that class's ECE",
-            "", "", height: 130 + 290 * rows);
+        string reading = many
+            ? $"the {k} classes of largest ECE (of {r.PerClass.Count}); classwise ECE {Html.Pct(r.ClasswiseEce)}, the table below lists every class"
+            : $"classwise ECE {Html.Pct(r.ClasswiseEce)}; each panel's title gives that class's ECE";
+        var layout = Theme.Layout($"Per-class reliability ({split} split) — {reading}", "", "", height: 130 + 290 * rows);
         layout.Remove("xaxis");
         layout.Remove("yaxis");
         layout["showlegend"] = false;
         layout["margin"]!["t"] = Theme.TwoLineTop + 26;   // the top row's panel titles sit between the chart title and the panels
         var notes = new JsonArray();
-        for (int c = 0; c < k; c++)
+        for (int n = 0; n < k; n++)
         {
-            int row = c / cols, col = c % cols;
-            string suffix = c == 0 ? "" : (c + 1).ToString(CultureInfo.InvariantCulture);
+            int c = shown[n];
+            int row = n / cols, col = n % cols;
+            string suffix = n == 0 ? "" : (n + 1).ToString(CultureInfo.InvariantCulture);
             string xa = "x" + suffix, ya = "y" + suffix;
             double x0 = col * (w + gapX), y1 = 1 - row * (h + gapY);
             var xAxis = Theme.Axis("predicted p (probability)");
@@ -82,7 +91,7 @@ public static class CalibrationViews
             var cls = r.PerClass[c];
             traces.Add(Figure.Diagonal(xa, ya, showLegend: false));
             traces.Add(Gaps(cls.Bins, xa, ya, GapColour));
-            traces.Add(Points(cls.Bins, cls.Class, Theme.Colour(c), xa, ya, "p(" + cls.Class + ")"));
+            traces.Add(Points(cls.Bins, cls.Class, Theme.Colour(n), xa, ya, "p(" + cls.Class + ")"));
             notes.Add(new JsonObject
             {
                 ["text"] = $"<b>{Figure.Text(cls.Class)}</b> · ECE {Html.Pct(cls.Ece)}", ["showarrow"] = false,

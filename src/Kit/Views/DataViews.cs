@@ -51,6 +51,7 @@ public static class DataViews
 
     public static ChartView LengthHistogram(DatasetProfile p)
     {
+        if (ManyClasses.Apply(p.Classes.Count)) return ManyClassViews.LengthHistogram(p);
         var traces = new JsonArray();
         var centres = p.Histogram.Select(b => (b.From + b.To) / 2.0).ToArray();
         var labels = p.Histogram.Select(b => b.From == b.To ? b.From.ToString(Inv) : $"{b.From}–{b.To}").ToArray();
