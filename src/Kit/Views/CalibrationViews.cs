@@ -55,9 +55,13 @@ public static class CalibrationViews
         bool many = ManyClasses.Apply(r.PerClass.Count);
         int[] shown = many ? ManyClassViews.ByEce(r).Take(ManyClasses.ReliabilityPanels).ToArray() : Enumerable.Range(0, r.PerClass.Count).ToArray();
         int k = shown.Length;
-        int cols = Math.Min(4, k), rows = (k + cols - 1) / cols;
         // Rows need room for the x titles of one row plus the panel titles of the next.
         const double gapX = 0.06, gapY = 0.2;
+        // As many columns (up to four) as leave each panel title room on one line, so titles never run into each other.
+        double titleWidth = shown.Select(c => PanelTitleWidth(r.PerClass[c])).DefaultIfEmpty(0).Max();
+        int cols = Math.Max(1, Math.Min(4, k));
+        while (cols > 1 && (1 - gapX * (cols - 1)) / cols * PanelsPlotWidth < titleWidth) cols--;
+        int rows = (k + cols - 1) / cols;
         double w = (1 - gapX * (cols - 1)) / cols, h = (1 - gapY * (rows - 1)) / rows;
         var traces = new JsonArray();
         string reading = many
@@ -139,6 +143,11 @@ public static class CalibrationViews
         }, "Before and after temperature scaling");
         return new StackView("Temperature scaling", new IView[] { chart, new TextView("", table) });
     }
+
+    /// <summary>The plot width the panel layout assumes: the report's column less the chart's side margins.</summary>
+    const double PanelsPlotWidth = 880;
+
+    static double PanelTitleWidth(ClassReliability c) => ManyClasses.TextWidth($"{c.Class} · ECE {Html.Pct(c.Ece)}", 12) * 1.1;   // bold runs wider
 
     /// <summary>Neutral, so a gap never reads as one of the class colours in the small multiples.</summary>
     const string GapColour = "rgba(31,41,51,0.45)";

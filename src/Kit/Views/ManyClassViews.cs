@@ -195,6 +195,39 @@ public static class ManyClassViews
         };
     }
 
+    /// <summary>Class shares per part as one row per class (largest class at the top), the parts' bars side by side in each row.</summary>
+    public static ChartView SplitShares(SplitSummary s, IReadOnlyList<string> classNames)
+    {
+        int k = classNames.Count;
+        var order = Enumerable.Range(0, k).OrderByDescending(c => s.Parts.Sum(p => c < p.ClassCounts.Length ? p.ClassCounts[c] : 0)).ThenBy(c => c).ToArray();
+        var y = Figure.Texts(order.Select(c => classNames[c]));
+        var traces = new JsonArray();
+        for (int i = 0; i < s.Parts.Count; i++)
+        {
+            var part = s.Parts[i];
+            traces.Add(new JsonObject
+            {
+                ["type"] = "bar", ["orientation"] = "h", ["name"] = Figure.Text(part.Part), ["y"] = y.DeepClone(),
+                ["x"] = Figure.Numbers(order.Select(c => part.Proportions[c])), ["customdata"] = Figure.Numbers(order.Select(c => part.ClassCounts[c])),
+                ["marker"] = new JsonObject { ["color"] = Theme.Colour(i) },
+                ["hovertemplate"] = $"{Figure.Text(part.Part)} · %{{y}}<br>%{{x:.1%}} of the part (%{{customdata}} rows)<extra></extra>",
+            });
+        }
+        var layout = Theme.Layout($"Class shares per part — the largest gap between parts is {Html.Pct(DataViews.WorstShareGap(s))} points",
+            "share of the part's rows (fraction)", "class (largest first)", height: Theme.TwoLineTop + 70 + 8 * Math.Max(1, s.Parts.Count) * k);
+        layout["barmode"] = "group";
+        layout["bargap"] = 0.25;
+        layout["xaxis"]!["tickformat"] = ".0%";
+        layout["xaxis"]!["side"] = "top";
+        layout["yaxis"]!["autorange"] = "reversed";
+        layout["yaxis"]!["dtick"] = 1;
+        layout["yaxis"]!["tickfont"] = new JsonObject { ["size"] = TickFont };
+        layout["margin"]!["l"] = (int)Math.Ceiling(order.Max(c => ManyClasses.TextWidth(classNames[c], TickFont))) + 48;
+        layout["margin"]!["t"] = Theme.TwoLineTop + 40;
+        layout["margin"]!["b"] = 20;
+        return new ChartView("Class shares per part", traces, layout) { Caption = "Bars of one class should be near level; a part that lacks a class cannot measure it." };
+    }
+
     static JsonObject Band(string name, IEnumerable<int> rows, double[] centres, string[] labels, double width, string colour) => new()
     {
         ["type"] = "bar", ["name"] = Figure.Text(name), ["x"] = Figure.Numbers(centres), ["y"] = Figure.Numbers(rows),

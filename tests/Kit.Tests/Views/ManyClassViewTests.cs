@@ -120,6 +120,29 @@ public class ManyClassViewTests
     }
 
     [Fact]
+    public void Split_shares_are_one_row_per_class_largest_first()
+    {
+        var p = S.Profile();
+        var table = new Kit.Data.LabelledTable("many-classes.csv", S.Texts, S.Labels.Select(l => S.Names[l]).ToArray());
+        var split = Kit.Data.Splitter.StratifiedHoldout(table.LabelIds(), 0.7, 0.15, 0.15, 3, p.RowLengths);
+        var names = table.LabelMap().Names;
+        var view = DataViews.Split(split.Summary, names);
+        var chart = StackView.ChartsIn([view]).Single();
+        var (data, layout) = FigureChecks.Parse(chart);
+        Assert.Equal(3, data.Count);
+        Assert.All(data, t => Assert.Equal("h", t!["orientation"]!.GetValue<string>()));
+        var y = Strings(data[0]!["y"]);
+        Assert.Equal(45, y.Length);
+        var rows = y.Select(n => p.Classes.Single(c => Figure.Text(c.Name) == n).Rows).ToArray();
+        Assert.Equal(rows.OrderByDescending(r => r), rows);
+        var train = FigureChecks.Numbers(data[0]!["x"]);
+        int first = Array.IndexOf(names.Select(Figure.Text).ToArray(), y[0]);
+        Assert.Equal(split.Summary.Parts[0].Proportions[first], train[0]!.Value, 12);
+        Assert.True(layout["margin"]!["l"]!.GetValue<int>() >= y.Max(n => ManyClasses.TextWidth(n, 11)));
+        FigureChecks.HasTitledAxes(chart);
+    }
+
+    [Fact]
     public void Reliability_draws_the_classes_of_largest_ece_and_tabulates_every_class()
     {
         var r = S.Calibration();
@@ -129,6 +152,14 @@ public class ManyClassViewTests
         Assert.Equal(ManyClasses.ReliabilityPanels, titles.Length);
         var expected = r.PerClass.OrderByDescending(c => c.Ece).Take(ManyClasses.ReliabilityPanels).ToArray();
         for (int i = 0; i < titles.Length; i++) Assert.Equal($"<b>{Figure.Text(expected[i].Class)}</b> · ECE {Html.Pct(expected[i].Ece)}", titles[i]);
+        // Titles on one row leave each other the estimated width of the longest title (the long synthetic names force fewer columns).
+        var notes = layout["annotations"]!.AsArray().Select(a => (X: a!["x"]!.GetValue<double>(), Y: a["y"]!.GetValue<double>())).ToArray();
+        double widest = expected.Max(c => ManyClasses.TextWidth($"{c.Class} · ECE {Html.Pct(c.Ece)}", 12));
+        foreach (var row in notes.GroupBy(n => Math.Round(n.Y, 6)))
+        {
+            var xs = row.Select(n => n.X).Order().ToArray();
+            for (int i = 1; i < xs.Length; i++) Assert.True((xs[i] - xs[i - 1]) * 880 >= widest, $"panel titles {xs[i - 1]} and {xs[i]} closer than {widest} px");
+        }
         FigureChecks.HasTitledAxes(chart);
         var views = ManyClassViews.Reliability(r);
         Assert.Equal(2, views.Length);
