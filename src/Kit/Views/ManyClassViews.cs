@@ -16,8 +16,8 @@ public static class ManyClassViews
 {
     static readonly CultureInfo Inv = CultureInfo.InvariantCulture;
 
-    /// <summary>Pixels per heat map row, and the plot width the cell-size decision assumes (the report's column less labels and colour bar).</summary>
-    const double CellPixels = 18, NominalPlotWidth = 760;
+    /// <summary>Pixels per heat map row; the chart width the cell-size decision starts from (the report's column less side margins) and the colour bar's share of it.</summary>
+    const double CellPixels = 18, NominalChartWidth = 880, ColourBarPixels = 110;
     const double TickFont = 11, CellFont = 9;
 
     /// <summary>
@@ -31,7 +31,8 @@ public static class ManyClassViews
         var names = m.ClassNames;
         int k = names.Count;
         int[] order = ConfusionOrder.Of(m);
-        double cell = Math.Min(CellPixels, NominalPlotWidth / k);
+        double labelWidth = names.Max(n => ManyClasses.TextWidth(n, TickFont));
+        double cell = Math.Min(CellPixels, (NominalChartWidth - (labelWidth + 48) - ColourBarPixels) / k);
         var z = new JsonArray();
         var text = new JsonArray();
         var custom = new JsonArray();
@@ -49,7 +50,7 @@ public static class ManyClassViews
                 row.Add(v);
                 crow.Add(m.Confusion[i, j]);
                 string label = m.Confusion[i, j] == 0 ? "" : normalised ? ShortPct(v) : m.Confusion[i, j].ToString(Inv);
-                trow.Add(label.Length > 0 && ManyClasses.TextWidth(label, CellFont) + 2 <= cell && cell >= CellFont + 3 ? label : "");
+                trow.Add(label.Length > 0 && ManyClasses.TextWidth(label, CellFont) + 2 <= cell ? label : "");   // rows are CellPixels tall, room for CellFont
             }
             z.Add(row);
             text.Add(trow);
@@ -67,13 +68,15 @@ public static class ManyClassViews
             ["colorbar"] = new JsonObject
             {
                 ["title"] = new JsonObject { ["text"] = normalised ? "share of row<br>(capped at the<br>largest mistake)" : "rows<br>(capped at the<br>largest mistake)" },
-                ["tickformat"] = normalised ? ".0%" : "d",
             },
         };
+        var bar = trace["colorbar"]!.AsObject();
+        double top = offMax > 0 ? offMax : 1.0;
+        if (normalised) bar["tickformat"] = top >= 0.2 ? ".0%" : top >= 0.02 ? ".1%" : ".2%";   // enough decimals that no two ticks read the same
+        else { bar["tickformat"] = "d"; bar["tick0"] = 0; bar["dtick"] = Math.Max(1, Math.Ceiling(top / 6)); }   // whole rows, one label per step
         string title = normalised
             ? "Confusion matrix, row-normalised, classes clustered — blocks near the diagonal are classes mixed up with each other"
             : "Confusion matrix, counts, classes clustered — blocks near the diagonal are classes mixed up with each other";
-        double labelWidth = ordered.Max(n => ManyClasses.TextWidth(n, TickFont));
         int plot = (int)Math.Ceiling(CellPixels * k);
         int bottom = (int)Math.Ceiling(labelWidth) + 48;
         var layout = Theme.Layout(title, "predicted class", "true class", height: Theme.TwoLineTop + plot + bottom);

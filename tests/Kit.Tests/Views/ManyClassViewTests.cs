@@ -56,6 +56,22 @@ public class ManyClassViewTests
         // The colour scale stops at the largest mistake, so off-diagonal blocks are visible next to a full diagonal.
         double offMax = Enumerable.Range(0, 45).SelectMany(i => Enumerable.Range(0, 45).Where(j => j != i).Select(j => normalised ? m.ConfusionNormalised[i, j] : m.Confusion[i, j])).Max();
         Assert.Equal(offMax, trace["zmax"]!.GetValue<double>(), 12);
+        // Colour bar ticks never repeat a label: whole-row steps for counts, enough decimals for shares.
+        var bar = trace["colorbar"]!;
+        if (normalised)
+        {
+            string format = bar["tickformat"]!.GetValue<string>();
+            int decimals = int.Parse(format[1..^1]);
+            double step = offMax / 10;   // finer than any step plotly picks for a colour bar of this length
+            var labels = Enumerable.Range(0, 11).Select(i => (100 * i * step).ToString("F" + decimals, System.Globalization.CultureInfo.InvariantCulture)).ToArray();
+            Assert.True(labels.Distinct().Count() == labels.Length, $"{format} repeats labels at step {step}");
+        }
+        else
+        {
+            Assert.Equal(0, bar["tick0"]!.GetValue<int>());
+            double dtick = bar["dtick"]!.GetValue<double>();
+            Assert.True(dtick >= 1 && dtick == Math.Floor(dtick), $"dtick {dtick}");
+        }
         Assert.True(layout["height"]!.GetValue<int>() >= 18 * 45);
         Assert.Equal(1, layout["xaxis"]!["dtick"]!.GetValue<int>());
         Assert.True(layout["margin"]!["l"]!.GetValue<int>() >= x.Max(n => ManyClasses.TextWidth(n, 11)));

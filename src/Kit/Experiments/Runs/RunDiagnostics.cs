@@ -134,7 +134,8 @@ public sealed record RunDiagnostics
     /// In order: the surest mistake (what drove the wrong call), a right call nearest the decision boundary
     /// (smallest margin between the predicted class and the runner-up: what tipped it), and the surest right call
     /// among rows of at least median length (what carried it). Of each kind the first candidate whose occlusion
-    /// moves the log-odds by at least <see cref="TrivialLogOdds"/> somewhere is kept, else the first candidate.
+    /// moves the log-odds by at least <see cref="TrivialLogOdds"/> somewhere is kept, else the candidate that moves
+    /// them most.
     /// </summary>
     static IReadOnlyList<OcclusionCase> ExplainByOcclusion(RunOutcome run, string[] texts, int[] lengths, int wanted)
     {
@@ -160,7 +161,7 @@ public sealed record RunDiagnostics
         foreach (var (why, candidates) in kinds)
         {
             if (cases.Count == wanted) break;
-            (OcclusionCase Case, int Row)? first = null, chosen = null;
+            (OcclusionCase Case, int Row, double Largest)? best = null;
             foreach (int row in candidates.Where(r => !taken.Contains(r)))
             {
                 int[] tokens = run.Test[row].ToArray();
@@ -168,13 +169,14 @@ public sealed record RunDiagnostics
                 var result = Occlusion.Compute(tokens, scorer, Vocabulary.UnknownId, predicted[row], pieces);
                 var c = new OcclusionCase(why, texts[row], names[labels[row]], names[predicted[row]], names[predicted[row]], pieces,
                     tokens.Select(t => t == Vocabulary.UnknownId).ToArray(), result);
-                first ??= (c, row);
-                if (result.Positions.Any(p => Math.Abs(p.LogOddsDrop) >= TrivialLogOdds)) { chosen = (c, row); break; }
+                double largest = result.Positions.Max(p => Math.Abs(p.LogOddsDrop));
+                if (best is null || largest > best.Value.Largest) best = (c, row, largest);
+                if (largest >= TrivialLogOdds) break;
             }
-            if ((chosen ?? first) is var (picked, pickedRow))
+            if (best is { } pick)
             {
-                cases.Add(picked);
-                taken.Add(pickedRow);
+                cases.Add(pick.Case);
+                taken.Add(pick.Row);
             }
         }
         return cases;
