@@ -45,26 +45,39 @@ public static class CalibrationViews
         };
     }
 
-    /// <summary>One small reliability panel per class: p(class) against how often the class is the true one.</summary>
+    /// <summary>
+    /// One small reliability panel per class: p(class) against how often the class is the true one. With many
+    /// classes, panels only for the <see cref="ManyClasses.ReliabilityPanels"/> classes of largest ECE
+    /// (<see cref="ManyClassViews.ReliabilityTable"/> lists them all).
+    /// </summary>
     public static ChartView PerClass(CalibrationReport r, string split = "test")
     {
-        int k = r.PerClass.Count;
-        int cols = Math.Min(4, k), rows = (k + cols - 1) / cols;
+        bool many = ManyClasses.Apply(r.PerClass.Count);
+        int[] shown = many ? ManyClassViews.ByEce(r).Take(ManyClasses.ReliabilityPanels).ToArray() : Enumerable.Range(0, r.PerClass.Count).ToArray();
+        int k = shown.Length;
         // Rows need room for the x titles of one row plus the panel titles of the next.
         const double gapX = 0.06, gapY = 0.2;
+        // As many columns (up to four) as leave each panel title room on one line, so titles never run into each other.
+        double titleWidth = shown.Select(c => PanelTitleWidth(r.PerClass[c])).DefaultIfEmpty(0).Max();
+        int cols = Math.Max(1, Math.Min(4, k));
+        while (cols > 1 && (1 - gapX * (cols - 1)) / cols * PanelsPlotWidth < titleWidth) cols--;
+        int rows = (k + cols - 1) / cols;
         double w = (1 - gapX * (cols - 1)) / cols, h = (1 - gapY * (rows - 1)) / rows;
         var traces = new JsonArray();
-        var layout = Theme.Layout($"Per-class reliability ({split} split) — classwise ECE {Html.Pct(r.ClasswiseEce)}; each panel's title gives that class's ECE",
-            "", "", height: 130 + 290 * rows);
+        string reading = many
+            ? $"the {k} classes of largest ECE (of {r.PerClass.Count}); classwise ECE {Html.Pct(r.ClasswiseEce)}, the table below lists every class"
+            : $"classwise ECE {Html.Pct(r.ClasswiseEce)}; each panel's title gives that class's ECE";
+        var layout = Theme.Layout($"Per-class reliability ({split} split) — {reading}", "", "", height: 130 + 290 * rows);
         layout.Remove("xaxis");
         layout.Remove("yaxis");
         layout["showlegend"] = false;
         layout["margin"]!["t"] = Theme.TwoLineTop + 26;   // the top row's panel titles sit between the chart title and the panels
         var notes = new JsonArray();
-        for (int c = 0; c < k; c++)
+        for (int n = 0; n < k; n++)
         {
-            int row = c / cols, col = c % cols;
-            string suffix = c == 0 ? "" : (c + 1).ToString(CultureInfo.InvariantCulture);
+            int c = shown[n];
+            int row = n / cols, col = n % cols;
+            string suffix = n == 0 ? "" : (n + 1).ToString(CultureInfo.InvariantCulture);
             string xa = "x" + suffix, ya = "y" + suffix;
             double x0 = col * (w + gapX), y1 = 1 - row * (h + gapY);
             var xAxis = Theme.Axis("predicted p (probability)");
@@ -82,7 +95,7 @@ public static class CalibrationViews
             var cls = r.PerClass[c];
             traces.Add(Figure.Diagonal(xa, ya, showLegend: false));
             traces.Add(Gaps(cls.Bins, xa, ya, GapColour));
-            traces.Add(Points(cls.Bins, cls.Class, Theme.Colour(c), xa, ya, "p(" + cls.Class + ")"));
+            traces.Add(Points(cls.Bins, cls.Class, Theme.Colour(n), xa, ya, "p(" + cls.Class + ")"));
             notes.Add(new JsonObject
             {
                 ["text"] = $"<b>{Figure.Text(cls.Class)}</b> · ECE {Html.Pct(cls.Ece)}", ["showarrow"] = false,
@@ -130,6 +143,11 @@ public static class CalibrationViews
         }, "Before and after temperature scaling");
         return new StackView("Temperature scaling", new IView[] { chart, new TextView("", table) });
     }
+
+    /// <summary>The plot width the panel layout assumes: the report's column less the chart's side margins.</summary>
+    const double PanelsPlotWidth = 880;
+
+    static double PanelTitleWidth(ClassReliability c) => ManyClasses.TextWidth($"{c.Class} · ECE {Html.Pct(c.Ece)}", 12) * 1.1;   // bold runs wider
 
     /// <summary>Neutral, so a gap never reads as one of the class colours in the small multiples.</summary>
     const string GapColour = "rgba(31,41,51,0.45)";

@@ -51,6 +51,7 @@ public static class DataViews
 
     public static ChartView LengthHistogram(DatasetProfile p)
     {
+        if (ManyClasses.Apply(p.Classes.Count)) return ManyClassViews.LengthHistogram(p);
         var traces = new JsonArray();
         var centres = p.Histogram.Select(b => (b.From + b.To) / 2.0).ToArray();
         var labels = p.Histogram.Select(b => b.From == b.To ? b.From.ToString(Inv) : $"{b.From}–{b.To}").ToArray();
@@ -86,6 +87,7 @@ public static class DataViews
                 p.Part, p.Rows.ToString("N0", Inv), Html.Pct(s.Rows == 0 ? double.NaN : (double)p.Rows / s.Rows),
                 Html.Num(p.Lengths.Median, 1), Html.Num(p.Lengths.P90, 1), p.Lengths.Count == 0 ? "–" : p.Lengths.Max.ToString(Inv),
             }), $"{s.Method}, seed {s.Seed}");
+        if (ManyClasses.Apply(classNames.Count)) return new StackView("Split summary", new IView[] { new TextView("", table), ManyClassViews.SplitShares(s, classNames) });
         var traces = new JsonArray();
         for (int i = 0; i < s.Parts.Count; i++)
         {

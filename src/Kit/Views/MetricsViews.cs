@@ -44,6 +44,7 @@ public static class MetricsViews
     /// <summary>Precision, recall and F1 side by side per class, the class's true rows in the tick label.</summary>
     public static ChartView PerClass(ClassificationMetrics m, string split = "test")
     {
+        if (ManyClasses.Apply(m.ClassNames.Count)) return ManyClassViews.PerClass(m, split);
         var ticks = Figure.Texts(m.PerClass.Select(c => $"{c.Class} (n={c.TrueRows})"));
         var traces = new JsonArray();
         var series = new (string Name, Func<ClassScores, double> Get)[] { ("precision", c => c.Precision), ("recall", c => c.Recall), ("F1", c => c.F1) };
@@ -70,8 +71,10 @@ public static class MetricsViews
         };
     }
 
+    /// <summary>The confusion heat map; with many classes in clustered order with sparse numbers (<see cref="ManyClassViews.Confusion"/>).</summary>
     public static ChartView Confusion(ClassificationMetrics m, bool normalised)
     {
+        if (ManyClasses.Apply(m.ClassNames.Count)) return ManyClassViews.Confusion(m, normalised);
         var names = m.ClassNames;
         int k = names.Count;
         var z = new JsonArray();

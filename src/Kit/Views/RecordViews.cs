@@ -33,7 +33,7 @@ public static class RecordViews
         ViewRegistry.Register<ClassificationMetrics>(Metrics);
         ViewRegistry.Register<LengthBreakdown>(b => new StackView("Accuracy by length", new IView[] { LengthViews.Accuracy(b), LengthViews.ClassByBin(b.ByClass) }));
         ViewRegistry.Register<ClassByBinTable>(t => LengthViews.ClassByBin(t));
-        ViewRegistry.Register<CalibrationReport>(c => new StackView("Calibration", new IView[] { CalibrationViews.Reliability(c), CalibrationViews.PerClass(c) }));
+        ViewRegistry.Register<CalibrationReport>(c => new StackView("Calibration", [CalibrationViews.Reliability(c), .. ManyClassViews.Reliability(c)]));
         ViewRegistry.Register<TemperatureReport>(Temperature);
         ViewRegistry.Register<Projection>(p => p.Points.Any(x => x.Label is not null) ? ProjectionViews.Sequences(p) : ProjectionViews.Tokens(p));
         ViewRegistry.Register<ErrorAnalysis>(e => ErrorViews.Tables(e));
@@ -48,11 +48,10 @@ public static class RecordViews
         ViewRegistry.Register<SearchRecord>(SearchViews.Rungs);
     }
 
-    /// <summary>Headline table, per-class scores and the confusion counts.</summary>
-    public static StackView Metrics(ClassificationMetrics m) => new("Test scores", new IView[]
-    {
-        MetricsViews.Summary(m), MetricsViews.PerClass(m), MetricsViews.Confusion(m, normalised: false),
-    });
+    /// <summary>Headline table, per-class scores and the confusion counts (with many classes, clustered, and the most confused pairs).</summary>
+    public static StackView Metrics(ClassificationMetrics m) => new("Test scores", ManyClasses.Apply(m.ClassNames.Count)
+        ? [MetricsViews.Summary(m), MetricsViews.PerClass(m), MetricsViews.Confusion(m, normalised: false), ManyClassViews.ConfusedPairs(m)]
+        : [MetricsViews.Summary(m), MetricsViews.PerClass(m), MetricsViews.Confusion(m, normalised: false)]);
 
     static IView Temperature(TemperatureReport t) => t.Before is not null && t.After is not null
         ? CalibrationViews.Temperature(t)
@@ -89,8 +88,10 @@ public static class RecordViews
         {
             DataViews.Profile(d.Profile), DataViews.Split(d.Split), DataViews.Leakage(d.Leakage),
             new StackView("Accuracy by length", new IView[] { LengthViews.Accuracy(d.ByLength), LengthViews.ClassByBin(d.ByLength.ByClass) }),
-            CalibrationViews.Reliability(d.Calibration), CalibrationViews.PerClass(d.Calibration), CalibrationViews.Temperature(d.Temperature),
+            CalibrationViews.Reliability(d.Calibration),
         };
+        views.AddRange(ManyClassViews.Reliability(d.Calibration));
+        views.Add(CalibrationViews.Temperature(d.Temperature));
         if (d.Embedding is not null) views.Add(ProjectionViews.Tokens(d.Embedding));
         if (d.TestRepresentations is not null) views.Add(ProjectionViews.Sequences(d.TestRepresentations));
         views.Add(ErrorViews.Tables(d.Errors));

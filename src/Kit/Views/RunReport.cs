@@ -73,16 +73,12 @@ public sealed class RunReport
             new("split", "Split and vocabulary", [DataViews.Split(d.Split), DataViews.Encoding(d.Coverage, run.Truncation)]),
             new("leakage", "Leakage audit", [DataViews.Leakage(d.Leakage)]),
             new("training", "Training", [HistoryViews.Curves(run.History)]),
-            new("scores", "Test scores",
-            [
-                MetricsViews.Summary(run.TestMetrics, d.TestIntervals), MetricsViews.PerClass(run.TestMetrics),
-                MetricsViews.Confusion(run.TestMetrics, normalised: false), MetricsViews.Confusion(run.TestMetrics, normalised: true),
-            ]),
+            new("scores", "Test scores", ManyClassViews.Scores(run.TestMetrics, d.TestIntervals)),
             new("length", "Accuracy by length", [LengthViews.Accuracy(d.ByLength), LengthViews.ClassByBin(d.ByLength.ByClass)]),
             new("calibration", "Calibration",
             [
                 CalibrationViews.Reliability(d.Calibration), CalibrationViews.Reliability(d.CalibrationEqualMass),
-                CalibrationViews.PerClass(d.Calibration), CalibrationViews.Temperature(d.Temperature),
+                .. ManyClassViews.Reliability(d.Calibration), CalibrationViews.Temperature(d.Temperature),
             ]),
             new("maps", "Embedding and representation maps", MapViews(run, d)),
             new("errors", "Errors", [ErrorViews.Tables(d.Errors)]),

@@ -53,4 +53,62 @@ public class OcclusionTests
         Assert.Throws<ArgumentOutOfRangeException>(() => Occlusion.Compute([1, 2], Score, Unknown, 2));
         Assert.Throws<ArgumentException>(() => Occlusion.Compute([], Score, Unknown, 1));
     }
+
+    /// <summary>Softmax of the given logits (the textbook definition, e^z_k / Σ_j e^z_j, computed directly).</summary>
+    static double[] Softmax(params double[] z)
+    {
+        double max = z.Max();
+        var e = z.Select(v => Math.Exp(v - max)).ToArray();
+        return e.Select(v => v / e.Sum()).ToArray();
+    }
+
+    [Fact]
+    public void Log_odds_drop_is_the_hand_computed_fall_in_log_p_minus_log_of_one_minus_p()
+    {
+        // Three classes, logits (1.5 · #(token 7), 0, 1). By hand: for a softmax, log p0 − log(1 − p0) = z0 − log(e^0 + e^1)
+        // = z0 − log(1 + e), so with tokens [7, 7, 3] the log-odds of class 0 are 3 − log(1 + e) = 1.686738…, hiding a 7
+        // leaves 1.5 − log(1 + e), a drop of exactly 1.5; hiding the 3 drops nothing. In probability the same edit is
+        // e³/(e³ + 1 + e) − e^1.5/(e^1.5 + 1 + e) = 0.843795 − 0.546549 = 0.297245 (to six places).
+        double[][] Score(int[][] batch) => batch.Select(s => Softmax(1.5 * s.Count(t => t == 7), 0, 1)).ToArray();
+        var r = Occlusion.Compute([7, 7, 3], Score, Unknown, targetClass: 0);
+        Assert.Equal(3 - Math.Log(1 + Math.E), r.BaseLogOdds, 12);
+        Assert.Equal(1.686738, r.BaseLogOdds, 6);
+        Assert.Equal(1.5, r.Positions[0].LogOddsDrop, 12);
+        Assert.Equal(1.5 - Math.Log(1 + Math.E), r.Positions[1].OccludedLogOdds, 12);
+        Assert.Equal(0, r.Positions[2].LogOddsDrop, 12);
+        Assert.Equal(0.297245, r.Positions[0].Drop, 6);
+        Assert.Equal(Math.Exp(3) / (Math.Exp(3) + 1 + Math.E) - Math.Exp(1.5) / (Math.Exp(1.5) + 1 + Math.E), r.Positions[0].Drop, 12);
+        Assert.Equal(7, r.ToDataFrame().Columns.Count);
+    }
+
+    [Fact]
+    public void A_confident_row_shows_log_odds_drops_where_the_probability_drop_rounds_to_zero()
+    {
+        // p(class 0) = e^(10 + 0.2·#7) / (e^(10 + 0.2·#7) + 2) = 0.999926 with one 7: hiding it moves p by 1.6e-5 (prints as 0.000)
+        // but the log-odds by exactly 0.2 (the logit change, the other two logits being fixed).
+        double[][] Score(int[][] batch) => batch.Select(s => Softmax(10 + 0.2 * s.Count(t => t == 7), 0, 0)).ToArray();
+        var r = Occlusion.Compute([4, 7, 5], Score, Unknown, targetClass: 0);
+        Assert.Equal(0.999926, r.BaseProbability, 6);
+        Assert.Equal(1.6e-5, r.Positions[1].Drop, 6);
+        Assert.Equal("0.000", Kit.Views.Html.Num(r.Positions[1].Drop));
+        Assert.Equal(0.2, r.Positions[1].LogOddsDrop, 9);
+        Assert.Equal(0, r.Positions[0].LogOddsDrop, 12);
+
+        // Closer to 1 still: logit 30 puts 1 − p at 1.9e-13, where 1 − p computed from p keeps about three digits. The
+        // sum of the other classes keeps them all, so the drop is still the logit change.
+        double[][] Sure(int[][] batch) => batch.Select(s => Softmax(30 + 0.2 * s.Count(t => t == 7), 0, 0)).ToArray();
+        var sure = Occlusion.Compute([4, 7, 5], Sure, Unknown, targetClass: 0);
+        Assert.Equal(0.2, sure.Positions[1].LogOddsDrop, 9);
+        Assert.True(Math.Abs(sure.Positions[1].Drop) < 1e-12);
+    }
+
+    [Fact]
+    public void Log_odds_are_clamped_away_from_zero_and_one()
+    {
+        // log(1) − log(1e-15) = 34.538776…, and the mirror image for p = 0.
+        Assert.Equal(-Math.Log(1e-15), Occlusion.LogOdds([1.0, 0.0], 0), 9);
+        Assert.Equal(Math.Log(1e-15), Occlusion.LogOdds([1.0, 0.0], 1), 9);
+        Assert.Equal(Math.Log(0.25 / 0.75), Occlusion.LogOdds([0.25, 0.5, 0.25], 2), 12);
+        Assert.Throws<ArgumentOutOfRangeException>(() => Occlusion.LogOdds([0.5, 0.5], 2));
+    }
 }

@@ -19,8 +19,8 @@ public sealed record DiagnosticsOptions
     public double TsnePerplexity { get; init; } = 30;
     /// <summary>Rows in each error table.</summary>
     public int ErrorRows { get; init; } = 15;
-    /// <summary>Test rows explained by occlusion (0, 1 or 2: the surest mistake, then a sure correct call).</summary>
-    public int OcclusionExamples { get; init; } = 2;
+    /// <summary>Test rows explained by occlusion (0 to 3: the surest mistake, the right call nearest the decision boundary, then a sure right call).</summary>
+    public int OcclusionExamples { get; init; } = 3;
     public ulong Seed { get; init; } = 1;
 
     public static DiagnosticsOptions Quick => new() { ProjectionMaxPoints = 1000, TsneIterations = 400, BootstrapReplicates = 300 };
@@ -34,6 +34,6 @@ public sealed record DiagnosticsOptions
         if (TsneIterations < 1) throw new ArgumentOutOfRangeException(nameof(TsneIterations), "at least one iteration is needed.");
         if (!(TsnePerplexity > 0)) throw new ArgumentOutOfRangeException(nameof(TsnePerplexity), $"perplexity {TsnePerplexity} must be positive.");
         if (ErrorRows < 1) throw new ArgumentOutOfRangeException(nameof(ErrorRows), "at least one row is needed.");
-        if (OcclusionExamples is < 0 or > 2) throw new ArgumentOutOfRangeException(nameof(OcclusionExamples), $"{OcclusionExamples}; choose 0, 1 or 2.");
+        if (OcclusionExamples is < 0 or > 3) throw new ArgumentOutOfRangeException(nameof(OcclusionExamples), $"{OcclusionExamples}; choose 0 to 3.");
     }
 }

@@ -121,7 +121,22 @@ public sealed record RunDiagnostics
         };
     }
 
-    /// <summary>The surest mistake (what drove the wrong call) and the surest correct call among rows of at least median length.</summary>
+    /// <summary>
+    /// Below this largest |log-odds drop| an occlusion shows next to nothing, so the next candidate of the same kind
+    /// is tried (a chosen floor, no source: hiding the token changes the odds by about 5 %).
+    /// </summary>
+    internal const double TrivialLogOdds = 0.05;
+
+    /// <summary>Candidates of one kind tried before settling for the first (each costs one scoring batch).</summary>
+    const int CandidatesPerKind = 5;
+
+    /// <summary>
+    /// In order: the surest mistake (what drove the wrong call), a right call nearest the decision boundary
+    /// (smallest margin between the predicted class and the runner-up: what tipped it), and the surest right call
+    /// among rows of at least median length (what carried it). Of each kind the first candidate whose occlusion
+    /// moves the log-odds by at least <see cref="TrivialLogOdds"/> somewhere is kept, else the candidate that moves
+    /// them most.
+    /// </summary>
     static IReadOnlyList<OcclusionCase> ExplainByOcclusion(RunOutcome run, string[] texts, int[] lengths, int wanted)
     {
         var cases = new List<OcclusionCase>();
@@ -129,24 +144,50 @@ public sealed record RunDiagnostics
         var probs = run.TestProbabilities;
         int[] labels = run.Test.Labels, predicted = run.TestMetrics.Predicted;
         var usable = Enumerable.Range(0, run.Test.Count).Where(i => run.Test.Length(i) > 0).ToArray();
-        int? mistake = usable.Where(i => predicted[i] != labels[i]).OrderByDescending(i => probs[i][predicted[i]]).ThenBy(i => i).Select(i => (int?)i).FirstOrDefault();
         double median = usable.Length == 0 ? 0 : usable.Select(i => (double)lengths[i]).Order().ElementAt(usable.Length / 2);
-        int? correct = usable.Where(i => predicted[i] == labels[i] && lengths[i] >= median).OrderByDescending(i => probs[i][predicted[i]]).ThenBy(i => i)
-            .Select(i => (int?)i).FirstOrDefault();
-        var picks = new List<(int Row, string Why)>();
-        if (mistake is int m) picks.Add((m, "the test row the model got wrong with the highest confidence"));
-        if (correct is int c) picks.Add((c, "a test row of at least median length that the model got right with the highest confidence"));
-        var scorer = ModelReadout.Scorer(run.Model);
-        foreach (var (row, why) in picks.Take(wanted))
+        var kinds = new (string Why, int[] Candidates)[]
         {
-            int[] tokens = run.Test[row].ToArray();
-            var pieces = Pieces(run, texts[row], tokens);
-            var result = Occlusion.Compute(tokens, scorer, Vocabulary.UnknownId, predicted[row], pieces);
-            var names = run.Labels.Names;
-            cases.Add(new OcclusionCase(why, texts[row], names[labels[row]], names[predicted[row]], names[predicted[row]], pieces,
-                tokens.Select(t => t == Vocabulary.UnknownId).ToArray(), result));
+            ("the test row the model got wrong with the highest confidence",
+                usable.Where(i => predicted[i] != labels[i]).OrderByDescending(i => probs[i][predicted[i]]).ThenBy(i => i).Take(CandidatesPerKind).ToArray()),
+            ("a test row the model got right by the narrowest margin over the runner-up class",
+                usable.Where(i => predicted[i] == labels[i]).OrderBy(i => Margin(probs[i], predicted[i])).ThenBy(i => i).Take(CandidatesPerKind).ToArray()),
+            ("a test row of at least median length that the model got right with the highest confidence",
+                usable.Where(i => predicted[i] == labels[i] && lengths[i] >= median).OrderByDescending(i => probs[i][predicted[i]]).ThenBy(i => i)
+                    .Take(CandidatesPerKind).ToArray()),
+        };
+        var scorer = ModelReadout.Scorer(run.Model);
+        var names = run.Labels.Names;
+        var taken = new HashSet<int>();
+        foreach (var (why, candidates) in kinds)
+        {
+            if (cases.Count == wanted) break;
+            (OcclusionCase Case, int Row, double Largest)? best = null;
+            foreach (int row in candidates.Where(r => !taken.Contains(r)))
+            {
+                int[] tokens = run.Test[row].ToArray();
+                var pieces = Pieces(run, texts[row], tokens);
+                var result = Occlusion.Compute(tokens, scorer, Vocabulary.UnknownId, predicted[row], pieces);
+                var c = new OcclusionCase(why, texts[row], names[labels[row]], names[predicted[row]], names[predicted[row]], pieces,
+                    tokens.Select(t => t == Vocabulary.UnknownId).ToArray(), result);
+                double largest = result.Positions.Max(p => Math.Abs(p.LogOddsDrop));
+                if (best is null || largest > best.Value.Largest) best = (c, row, largest);
+                if (largest >= TrivialLogOdds) break;
+            }
+            if (best is { } pick)
+            {
+                cases.Add(pick.Case);
+                taken.Add(pick.Row);
+            }
         }
         return cases;
+    }
+
+    /// <summary>Probability of the predicted class minus the largest other.</summary>
+    static double Margin(double[] p, int top)
+    {
+        double second = 0;
+        for (int k = 0; k < p.Length; k++) if (k != top) second = Math.Max(second, p[k]);
+        return p[top] - second;
     }
 
     /// <summary>
