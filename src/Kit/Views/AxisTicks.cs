@@ -66,6 +66,16 @@ public sealed record AxisTicks(double Low, double High, double Step, IReadOnlyLi
         return axis;
     }
 
+    /// <summary>The same ticks on a colour bar, whose range is the trace's zmin/zmax rather than the bar's own.</summary>
+    public JsonObject ApplyToColourBar(JsonObject colourBar)
+    {
+        colourBar.Remove("tickformat");
+        colourBar["tickmode"] = "array";
+        colourBar["tickvals"] = new JsonArray(Values.Select(v => (JsonNode)JsonValue.Create(v)).ToArray());
+        colourBar["ticktext"] = new JsonArray(Labels.Select(l => (JsonNode)JsonValue.Create(l)).ToArray());
+        return colourBar;
+    }
+
     /// <summary>The largest 1/2/5 step that still gives at least four ticks; at most seven is then guaranteed.</summary>
     static double NiceStep(double low, double high, double span)
     {

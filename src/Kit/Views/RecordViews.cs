@@ -45,6 +45,7 @@ public static class RecordViews
         ViewRegistry.Register<RunReport>(r => new StackView(r.Title, r.Sections.Select(s => (IView)s.AsView()).ToArray()));
         ViewRegistry.Register<ReportSection>(s => s.AsView());
         ViewRegistry.Register<ComparisonRecord>(c => new StackView("Comparison", ComparisonReport.Views(c)));
+        ViewRegistry.Register<ComparisonVerdict>(v => TextView.Paragraph("Verdict", v.Sentence()));
     }
 
     /// <summary>Headline table, per-class scores and the confusion counts.</summary>

@@ -1,5 +1,6 @@
 using System.Globalization;
 using Kit.Diagnostics;
+using Microsoft.Data.Analysis;
 
 namespace Kit.Experiments;
 
@@ -71,6 +72,20 @@ public sealed record ComparisonVerdict(
         if (n == 0) return (double.NaN, double.NaN, "");
         var (lo, hi) = Wilson.Interval(hits, n);
         return (lo, hi, $"Wilson interval on {n.ToString("N0", Inv)} test rows");
+    }
+
+    /// <summary>One row per config the best was tested against: how many seeds were tested and in how many the lead holds.</summary>
+    public DataFrame ToDataFrame()
+    {
+        var leads = (RunnerUp is null ? Baselines : Baselines.Where(b => b.Config != RunnerUp.Config).Prepend(RunnerUp)).ToArray();
+        return new DataFrame(
+            new StringDataFrameColumn("best", leads.Select(_ => BestConfig)),
+            new StringDataFrameColumn("other", leads.Select(l => l.Config)),
+            new StringDataFrameColumn("other_label", leads.Select(l => l.Label)),
+            new BooleanDataFrameColumn("other_is_baseline", leads.Select(l => l.Baseline)),
+            new Int32DataFrameColumn("seeds_tested", leads.Select(l => l.Tested)),
+            new Int32DataFrameColumn("lead_established", leads.Select(l => l.Established)),
+            new DoubleDataFrameColumn("mean_difference", leads.Select(l => l.MeanDifference)));
     }
 
     /// <summary>The verdict in plain words, one short paragraph.</summary>
