@@ -31,8 +31,12 @@ public sealed record AxisTicks(double Low, double High, double Step, IReadOnlyLi
         {
             // One value: show a small window around it (a tenth of a percentage point each side at least).
             double half = Math.Max(Math.Abs(dataLow) * 0.01, 0.001);
+            // Kept inside [0, 1] when the value is, so a rate of exactly 0 or 1 gets no ticks beyond the possible.
+            bool rate = dataLow >= 0 && dataLow <= 1;
             dataLow -= half;
             dataHigh += half;
+            if (rate && dataLow < 0) (dataLow, dataHigh) = (0, dataHigh - dataLow);
+            if (rate && dataHigh > 1) (dataLow, dataHigh) = (dataLow - (dataHigh - 1), 1);
             span = dataHigh - dataLow;
         }
         double step = NiceStep(dataLow, dataHigh, span);
