@@ -31,7 +31,7 @@ public static class ComparisonViews
 
     /// <summary>What a config is, in full: its grid settings, or which baseline it is.</summary>
     static string Settings(ConfigSummary s) =>
-        s.Baseline ? $"n-gram {ConfigLabels.BaselineLabel(s.Config)} baseline"
+        s.Baseline ? $"{s.Config} (n-gram baseline)"
         : s.Settings.Count == 0 ? s.Config : ConfigLabels.Describe(s.Settings);
 
     /// <summary>Hover text naming a config: its short label, then its full settings.</summary>
