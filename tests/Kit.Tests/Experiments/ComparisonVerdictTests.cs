@@ -57,8 +57,10 @@ public class ComparisonVerdictTests
         Assert.Equal("gru · h32", v.CheapestLevelLabel);
         string text = v.Sentence();
         Assert.StartsWith("Best config: gru · h128, test accuracy 90.0 % (95 % Wilson interval on 1,000 test rows: 88.0 % to 91.7 %).", text);
-        Assert.Contains("over the runner-up gru · h32 is not established (+0.5 points", text);
-        Assert.Contains("over naive Bayes is established (+10.0 points", text);
+        Assert.Contains("Its lead over the runner-up gru · h32 (+0.5 points, 95 % interval ", text);
+        Assert.Contains("McNemar p = 0.4237) is not established", text);   // (|15 − 10| − 1)² / 25 = 0.64; P(χ²₁ ≥ 0.64) = erfc(√0.32) = 0.42371, from Python 3.11 math.erfc
+        Assert.Contains("its lead over naive Bayes (+10.0 points, 95 % interval ", text);
+        Assert.Contains("McNemar p < 0.0001) is established", text);
         Assert.Contains("The cheapest config level with it is gru · h32 (8,000 parameters against 50,000)", text);
         Assert.DoesNotContain("lstm", text); // neither runner-up nor baseline nor cheap: not named
         Assert.Equal(1 + 1, v.ToDataFrame().Rows.Count);
@@ -75,7 +77,8 @@ public class ComparisonVerdictTests
         ]).Verdict;
         Assert.Equal("gru", v.BestLabel);   // equal means: the comparison orders by name
         Assert.Equal((1, 0), (v.RunnerUp!.Tested, v.RunnerUp.Established));
-        Assert.Contains("over the runner-up lstm is not established", v.Sentence());
+        Assert.Contains("over the runner-up lstm (+0.0 points, 95 % interval ", v.Sentence());
+        Assert.Contains("McNemar p = 1) is not established", v.Sentence());
         Assert.Contains("The cheapest config level with it is lstm (3,000 parameters against 9,000)", v.Sentence());
     }
 
@@ -94,7 +97,7 @@ public class ComparisonVerdictTests
         string text = v.Sentence();
         Assert.Contains("mean over 2 seeds", text);
         Assert.Contains("(95 % t interval over runs:", text);
-        Assert.Contains("is established in 1 of 2 seeds", text);
+        Assert.Contains("Its lead over the runner-up rnn (+3.1 points on average) is established in 1 of 2 seeds", text);
         Assert.Contains("No cheaper config is level with it.", text); // rnn is not level and costs more anyway
     }
 

@@ -45,7 +45,7 @@ public sealed class VerdictSweepTests : IDisposable
         Assert.DoesNotContain(crippled.Label, text);
         // Each baseline the best is not is weighed in the verdict.
         foreach (var baseline in new[] { "naive Bayes", "logistic regression" })
-            if (v.BestLabel != baseline) Assert.Contains($" {baseline} is ", text);
+            if (v.BestLabel != baseline) Assert.Contains($" {baseline} (", text);
         // The best's lead over the crippled config is established on these test rows.
         var lead = LeadOver.Of(crippled, c.PairedTests.Where(p => p.B == crippled.Config).ToArray());
         Assert.Equal((1, 1), (lead.Tested, lead.Established));

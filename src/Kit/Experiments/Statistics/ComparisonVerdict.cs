@@ -67,7 +67,8 @@ public sealed record ComparisonVerdict(
     /// </summary>
     static (double Low, double High, string Kind) Interval(ConfigSummary best)
     {
-        if (best.Accuracy.Count >= 2) return (best.Accuracy.Low, best.Accuracy.High, "t interval over runs");
+        // A t interval over few runs can pass 0 or 100 %; accuracy cannot, so it is cut there.
+        if (best.Accuracy.Count >= 2) return (Math.Max(0, best.Accuracy.Low), Math.Min(1, best.Accuracy.High), "t interval over runs");
         int n = best.ByLength.Sum(b => b.Count), hits = best.ByLength.Sum(b => b.Correct);
         if (n == 0) return (double.NaN, double.NaN, "");
         var (lo, hi) = Wilson.Interval(hits, n);
@@ -98,9 +99,11 @@ public sealed record ComparisonVerdict(
         if (RunnerUp is null) parts.Add("It is the only config with finished runs, so there is nothing to weigh it against.");
         else
         {
-            var leads = new List<string> { $"over the runner-up {RunnerUp.Label} {Lead(RunnerUp)}" };
-            leads.AddRange(Baselines.Where(b => b.Config != RunnerUp.Config).Select(b => $"over {b.Label} {Lead(b)}"));
-            parts.Add($"Its lead {string.Join("; ", leads)} (established means McNemar p < 0.05 and a paired bootstrap 95 % interval above 0, on the same test rows).");
+            var leads = new List<string> { Lead(RunnerUp, "the runner-up ") };
+            leads.AddRange(Baselines.Where(b => b.Config != RunnerUp.Config).Select(b => Lead(b, "")));
+            parts.Add("Its lead " + string.Join("; its lead ", leads) + ".");
+            parts.Add("(Established means McNemar p < 0.05 and a paired bootstrap 95 % interval above 0, on the same test rows" +
+                      (Seeds > 1 ? "; each seed is tested on its own, folds joined.)" : ".)"));
             parts.Add(CheapestLevelConfig is null
                 ? "No cheaper config is level with it."
                 : $"The cheapest config level with it is {CheapestLevelLabel} ({Count(CheapestLevelParameters)} parameters against {Count(BestParameters)}): no paired test tells them apart.");
@@ -108,17 +111,18 @@ public sealed record ComparisonVerdict(
         return string.Join(" ", parts);
     }
 
-    string Lead(LeadOver l)
+    /// <summary>"over X (+1.2 points, …) is established …" for one rival.</summary>
+    static string Lead(LeadOver l, string role)
     {
-        string size = double.IsNaN(l.MeanDifference) ? "" : $" ({Points(l.MeanDifference)} points)";
-        if (l.Tested == 0) return $"could not be tested{size}: the runs share no test rows";
+        string points = double.IsNaN(l.MeanDifference) ? "" : $"{Points(l.MeanDifference)} points";
+        if (l.Tested == 0) return $"over {role}{l.Label} could not be tested: the runs share no test rows";
         if (l.Tested == 1)
-            return (l.Established == 1 ? "is established" : "is not established") +
-                   $"{size.TrimEnd(')')}, interval {Points(l.Low)} to {Points(l.High)}, p = {P(l.PValue)})";
-        string seeds = l.Tested == 1 ? "seed" : "seeds";
-        return l.Established == l.Tested ? $"is established in all {l.Tested} {seeds}{size}"
-            : l.Established == 0 ? $"is not established in any of the {l.Tested} {seeds}{size}"
-            : $"is established in {l.Established} of {l.Tested} {seeds}{size}";
+            return $"over {role}{l.Label} ({points}, 95 % interval {Points(l.Low)} to {Points(l.High)}, McNemar p {P(l.PValue)}) " +
+                   (l.Established == 1 ? "is established" : "is not established");
+        string status = l.Established == l.Tested ? $"is established in all {l.Tested} seeds"
+            : l.Established == 0 ? $"is not established in any of the {l.Tested} seeds"
+            : $"is established in {l.Established} of {l.Tested} seeds";
+        return $"over {role}{l.Label} ({points} on average) {status}";
     }
 
     string Repeats() =>
@@ -126,6 +130,6 @@ public sealed record ComparisonVerdict(
 
     static string Pct(double v) => (100 * v).ToString("F1", Inv) + " %";
     static string Points(double v) => (v >= 0 ? "+" : "−") + Math.Abs(100 * v).ToString("F1", Inv);
-    static string P(double p) => p < 1e-4 ? "< 0.0001" : p.ToString("0.####", Inv);
+    static string P(double p) => p < 1e-4 ? "< 0.0001" : "= " + p.ToString("0.####", Inv);
     static string Count(long v) => v.ToString("N0", Inv);
 }
