@@ -70,6 +70,42 @@ public sealed record AxisTicks(double Low, double High, double Step, IReadOnlyLi
         return axis;
     }
 
+    /// <summary>
+    /// Ticks for a log axis of counts (parameters) over [10^<paramref name="logLow"/>, 10^<paramref name="logHigh"/>]:
+    /// whole decades, or 1, 2 and 5 × 10^k, or every 1–9 × 10^k, whichever is the first to give three ticks; each
+    /// written out whole with k, M or G ("20k"). plotly's own log ticks repeat the mantissas ("2, 3, … 10k, 2, 3")
+    /// once the axis spans more than a decade. The range is set to exactly what is given.
+    /// </summary>
+    public static JsonObject ApplyLogCounts(JsonObject axis, double logLow, double logHigh)
+    {
+        List<double> Ticks(int[] mantissas)
+        {
+            var values = new List<double>();
+            for (int k = (int)Math.Floor(logLow); k <= (int)Math.Ceiling(logHigh); k++)
+                foreach (int m in mantissas)
+                {
+                    double v = m * Math.Pow(10, k), at = Math.Log10(v);
+                    if (at >= logLow - 1e-9 && at <= logHigh + 1e-9 && v >= 1) values.Add(Math.Round(v));
+                }
+            return values;
+        }
+        // The coarsest set that gives three ticks; under a third of a decade, even steps as on a linear axis.
+        var values = new[] { new[] { 1 }, [1, 2, 5], [1, 2, 3, 4, 5, 6, 7, 8, 9] }.Select(Ticks).FirstOrDefault(v => v.Count >= 3)
+            ?? For(Math.Pow(10, logLow), Math.Pow(10, logHigh), RateFormat.Fraction).Values
+                .Where(v => v >= Math.Pow(10, logLow) * (1 - 1e-9) && v <= Math.Pow(10, logHigh) * (1 + 1e-9)).ToList();
+        axis.Remove("tickformat");
+        axis["tickmode"] = "array";
+        axis["tickvals"] = new JsonArray(values.Select(v => (JsonNode)JsonValue.Create(v)).ToArray());
+        axis["ticktext"] = new JsonArray(values.Select(v => (JsonNode)JsonValue.Create(Compact(v))).ToArray());
+        axis["range"] = new JsonArray(logLow, logHigh);
+        return axis;
+    }
+
+    /// <summary>A whole count in at most three digits and a suffix: 500, 2k, 30k, 1M.</summary>
+    internal static string Compact(double v) =>
+        v >= 1e9 ? (v / 1e9).ToString("0.##", Inv) + "G" : v >= 1e6 ? (v / 1e6).ToString("0.##", Inv) + "M"
+        : v >= 1e3 ? (v / 1e3).ToString("0.##", Inv) + "k" : v.ToString("0", Inv);
+
     /// <summary>The same ticks on a colour bar, whose range is the trace's zmin/zmax rather than the bar's own.</summary>
     public JsonObject ApplyToColourBar(JsonObject colourBar)
     {

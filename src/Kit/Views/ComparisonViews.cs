@@ -148,7 +148,7 @@ public static class ComparisonViews
         }
         var layout = Theme.Layout("Accuracy against size — up and to the left is better", "parameters (log scale)", "mean test accuracy");
         layout["xaxis"]!["type"] = "log";
-        layout["xaxis"]!["range"] = Figure.Pair(rangeLo, rangeHi);
+        AxisTicks.ApplyLogCounts(layout["xaxis"]!.AsObject(), rangeLo, rangeHi);
         // Headroom for the label above the highest point: a sixth of the data's span on top.
         var means = c.Configs.Select(s => s.Accuracy.Mean).Where(double.IsFinite).DefaultIfEmpty(0.5).ToArray();
         double top = means.Max(), bottom = means.Min();

@@ -65,6 +65,29 @@ public class AxisTicksTests
     }
 
     [Fact]
+    public void Log_count_ticks_never_repeat_and_read_as_their_values()
+    {
+        var rng = new SplitMix64(17);
+        for (int i = 0; i < 2000; i++)
+        {
+            double low = 6 * rng.NextDouble(), high = low + 0.3 + 5 * rng.NextDouble();
+            var axis = AxisTicks.ApplyLogCounts(new JsonObject(), low, high);
+            var values = axis["tickvals"]!.AsArray().Select(v => v!.GetValue<double>()).ToArray();
+            var labels = axis["ticktext"]!.AsArray().Select(v => v!.GetValue<string>()).ToArray();
+            Assert.True(values.Length >= 2, $"[{low}, {high}]: {values.Length} ticks");
+            Assert.Equal(labels.Length, labels.Distinct(StringComparer.Ordinal).Count());
+            for (int k = 0; k < values.Length; k++)
+            {
+                string l = labels[k];
+                double scale = l.EndsWith('k') ? 1e3 : l.EndsWith('M') ? 1e6 : l.EndsWith('G') ? 1e9 : 1;
+                Assert.Equal(values[k], double.Parse(l.TrimEnd('k', 'M', 'G'), Inv) * scale, 6);
+            }
+        }
+        Assert.Equal(["20k", "50k", "100k"],
+            AxisTicks.ApplyLogCounts(new JsonObject(), Math.Log10(18_000), Math.Log10(110_000))["ticktext"]!.AsArray().Select(v => v!.GetValue<string>()));
+    }
+
+    [Fact]
     public void Applied_ticks_replace_plotly_formats_and_pad_the_range()
     {
         var axis = new JsonObject { ["tickformat"] = ".0%" };
