@@ -47,12 +47,15 @@ internal static class ReportCommand
             : ComparisonRecord.Build(SearchRecord.Finalists(contents.Records, SearchLog.Read(dir)), contents.Notes) with { Search = search };
         string path = ComparisonReport.Write(dir, comparison, DataName(dir));
         var inv = CultureInfo.InvariantCulture;
-        Console.WriteLine(string.Create(inv, $"{"config",-40} {"runs",4} {"accuracy",9} {"sd",7} {"macro F1",8} {"ECE",6} {"params",10}"));
+        Console.WriteLine(string.Create(inv, $"{"config",-28} {"settings",-40} {"runs",4} {"accuracy",9} {"sd",7} {"macro F1",8} {"ECE",6} {"params",10}"));
         foreach (var s in comparison.Configs)
             Console.WriteLine(string.Create(inv,
-                $"{s.Config,-40} {s.Runs,4} {s.Accuracy.Mean,9:P2} {Spread(s.Accuracy.StandardDeviation),7} {s.MacroF1.Mean,8:F3} {s.Ece.Mean,6:F3} {s.Parameters,10:N0}"));
+                $"{s.Label,-28} {s.Config,-40} {s.Runs,4} {s.Accuracy.Mean,9:P2} {Spread(s.Accuracy.StandardDeviation),7} {s.MacroF1.Mean,8:F3} {s.Ece.Mean,6:F3} {s.Parameters,10:N0}"));
         if (search?.Choice is { } choice) Console.WriteLine($"search chose {choice.Configs[0]}; model {Path.Combine(dir, choice.ModelFile ?? "")}");
         if (search?.BudgetCut == true) Console.WriteLine("the budget cut the search short (see the report's search rungs)");
+        Console.WriteLine();
+        Console.WriteLine(comparison.Verdict.Sentence());
+        Console.WriteLine();
         Console.WriteLine($"wrote {path}");
         return 0;
     }

@@ -32,8 +32,8 @@ public static class CalibrationViews
             $"Top-label reliability, {scheme} bins ({split} split) — ECE {Html.Pct(r.Ece)}{interval}, MCE {Html.Pct(r.Mce)}; points below the diagonal are overconfident",
             "confidence of the predicted class (probability)", "observed accuracy (fraction correct)", height: 520);
         layout["yaxis"]!["domain"] = Figure.Pair(0.3, 1);
-        layout["yaxis"]!["range"] = Figure.Pair(0, 1.02);
-        layout["xaxis"]!["range"] = Figure.Pair(0, 1.0);
+        AxisTicks.For(0, 1, RateFormat.Fraction).ApplyTo(layout["yaxis"]!.AsObject());
+        AxisTicks.For(0, 1, RateFormat.Fraction).ApplyTo(layout["xaxis"]!.AsObject());
         layout["xaxis"]!["anchor"] = "y2";
         var y2 = Theme.Axis("rows (count)");
         y2["domain"] = Figure.Pair(0, 0.2);
@@ -82,12 +82,12 @@ public static class CalibrationViews
             double x0 = col * (w + gapX), y1 = 1 - row * (h + gapY);
             var xAxis = Theme.Axis("predicted p (probability)");
             xAxis["domain"] = Figure.Pair(x0, x0 + w);
-            xAxis["range"] = Figure.Pair(0, 1);
+            AxisTicks.For(0, 1, RateFormat.Fraction).ApplyTo(xAxis);
             xAxis["anchor"] = ya;
             xAxis["title"]!["font"] = new JsonObject { ["size"] = 10 };
             var yAxis = Theme.Axis("observed frequency (fraction)");
             yAxis["domain"] = Figure.Pair(y1 - h, y1);
-            yAxis["range"] = Figure.Pair(0, 1.02);
+            AxisTicks.For(0, 1, RateFormat.Fraction).ApplyTo(yAxis);
             yAxis["anchor"] = xa;
             yAxis["title"]!["font"] = new JsonObject { ["size"] = 10 };
             layout["xaxis" + suffix] = xAxis;
@@ -128,8 +128,8 @@ public static class CalibrationViews
         var layout = Theme.Layout(
             $"Temperature scaling, fitted on validation: T = {Html.Num(t.Temperature, 2)}{bound} — {split} ECE {Html.Pct(t.TestEceBefore)} → {Html.Pct(t.TestEceAfter)}, NLL {Html.Num(t.TestNllBefore)} → {Html.Num(t.TestNllAfter)} nats",
             "confidence of the predicted class (probability)", "observed accuracy (fraction correct)", height: 460);
-        layout["xaxis"]!["range"] = Figure.Pair(0, 1);
-        layout["yaxis"]!["range"] = Figure.Pair(0, 1.02);
+        AxisTicks.For(0, 1, RateFormat.Fraction).ApplyTo(layout["xaxis"]!.AsObject());
+        AxisTicks.For(0, 1, RateFormat.Fraction).ApplyTo(layout["yaxis"]!.AsObject());
         var chart = new ChartView("Temperature scaling", traces, layout)
         {
             Caption = $"T > 1 softens overconfident scores, T < 1 sharpens underconfident ones. Accuracy is unchanged ({Html.Pct(t.TestAccuracy)}): dividing logits by T keeps their order.",

@@ -7,6 +7,7 @@ public static class ComparisonReport
 {
     public static IReadOnlyList<IView> Views(ComparisonRecord c) =>
     [
+        ComparisonViews.Verdict(c),
         ComparisonViews.Summary(c),
         .. SearchViews.For(c),
         ComparisonViews.AccuracyByConfig(c),
@@ -23,7 +24,7 @@ public static class ComparisonReport
         string path = Path.Combine(dir, "report.html");
         var best = c.Best;
         ReportWriter.Write(path, $"Comparison — {dataName}",
-            $"{c.Configs.Count} configs, {c.Runs} runs. Best: {best.Config}, mean test accuracy {Html.Pct(best.Accuracy.Mean)}.",
+            $"{c.Configs.Count} configs, {c.Runs} runs. Best: {best.Label}, mean test accuracy {Html.Pct(best.Accuracy.Mean)}.",
             Views(c));
         return path;
     }

@@ -105,7 +105,7 @@ public static class DataViews
         var layout = Theme.Layout($"Class shares per part — the largest gap between parts is {Html.Pct(worst)} points",
             "class", "share of the part's rows (fraction)", height: 400);
         layout["barmode"] = "group";
-        layout["yaxis"]!["tickformat"] = ".0%";
+        AxisTicks.ForValues(s.Parts.SelectMany(p => p.Proportions).Append(0)).ApplyTo(layout["yaxis"]!.AsObject());
         layout["xaxis"]!["tickangle"] = -30;
         var chart = new ChartView("Class shares per part", traces, layout) { Caption = "Bars of one class should be near level; a part that lacks a class cannot measure it." };
         return new StackView("Split summary", new IView[] { new TextView("", table), chart });

@@ -49,7 +49,7 @@ public static class DriftViews
             string axis = i == 0 ? "" : (i + 1).ToString(CultureInfo.InvariantCulture);
             var x = Theme.Axis(report.Histograms[i].Aspect);
             var y = Theme.Axis("share of rows");
-            y["tickformat"] = ".0%";
+            AxisTicks.ForValues(report.Histograms[i].Reference.Concat(report.Histograms[i].Scored).Append(0)).ApplyTo(y);
             layout["xaxis" + axis] = x;
             layout["yaxis" + axis] = y;
         }

@@ -21,7 +21,7 @@ public static class HistoryViews
         var y2 = Theme.Axis("accuracy (fraction correct)");
         y2["overlaying"] = "y";
         y2["side"] = "right";
-        y2["range"] = new JsonArray(0.0, 1.0);
+        AxisTicks.For(0, 1, RateFormat.Fraction).ApplyTo(y2);
         y2["showgrid"] = false;
         layout["yaxis2"] = y2;
         layout["xaxis"]!["dtick"] = 1;

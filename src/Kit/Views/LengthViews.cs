@@ -57,8 +57,7 @@ public static class LengthViews
         var y2 = Theme.Axis("accuracy (fraction correct)");
         y2["overlaying"] = "y";
         y2["side"] = "left";
-        y2["range"] = Figure.Pair(0, 1.02);
-        y2["tickformat"] = ".0%";
+        AxisTicks.For(0, 1).ApplyTo(y2);
         layout["yaxis2"] = y2;
         layout["legend"] = new JsonObject { ["orientation"] = "h", ["x"] = 0.0, ["xanchor"] = "left", ["y"] = -0.26, ["yanchor"] = "top" };
         layout["margin"]!["b"] = 96;
@@ -86,7 +85,7 @@ public static class LengthViews
             ["type"] = "heatmap", ["z"] = z, ["text"] = text, ["texttemplate"] = "%{text}", ["textfont"] = new JsonObject { ["size"] = 10 },
             ["x"] = Figure.Texts(t.Bins), ["y"] = Figure.Texts(t.ClassNames), ["zmin"] = 0.0, ["zmax"] = 1.0, ["colorscale"] = Theme.SequentialScale(),
             ["hoverongaps"] = false, ["hovertemplate"] = "true class %{y}<br>bin %{x}<br>recall %{z:.1%}<extra></extra>",
-            ["colorbar"] = new JsonObject { ["title"] = new JsonObject { ["text"] = "recall" }, ["tickformat"] = ".0%" },
+            ["colorbar"] = AxisTicks.For(0, 1).ApplyToColourBar(new JsonObject { ["title"] = new JsonObject { ["text"] = "recall" } }),
         };
         var layout = Theme.Layout($"Recall per class and {attribute} bin — empty cells have no test rows; small n means a shaky rate",
             $"{attribute} bin ({unit})", "true class", height: 140 + 40 * k);

@@ -63,7 +63,7 @@ public static class MetricsViews
             : $"Per-class scores ({split} split) — weakest class by F1: {weakest.Class} ({Html.Num(weakest.F1)})";
         var layout = Theme.Layout(title, "class (test rows in brackets)", "score (0 to 1)", height: 420);
         layout["barmode"] = "group";
-        layout["yaxis"]!["range"] = Figure.Pair(0, 1.05);
+        AxisTicks.For(0, 1, RateFormat.Fraction).ApplyTo(layout["yaxis"]!.AsObject());
         layout["xaxis"]!["tickangle"] = -30;
         return new ChartView("Per-class precision, recall and F1", traces, layout)
         {

@@ -46,6 +46,7 @@ public static class RecordViews
         ViewRegistry.Register<ReportSection>(s => s.AsView());
         ViewRegistry.Register<ComparisonRecord>(c => new StackView("Comparison", ComparisonReport.Views(c)));
         ViewRegistry.Register<SearchRecord>(SearchViews.Rungs);
+        ViewRegistry.Register<ComparisonVerdict>(v => TextView.Paragraph("Verdict", v.Sentence()));
     }
 
     /// <summary>Headline table, per-class scores and the confusion counts (with many classes, clustered, and the most confused pairs).</summary>

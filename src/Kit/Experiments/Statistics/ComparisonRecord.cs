@@ -14,6 +14,9 @@ public sealed record ComparisonRecord(IReadOnlyList<ConfigSummary> Configs, IRea
     /// <summary>The rungs of the search this comparison came from (its configs are then the last rung's and the baselines); null for a grid sweep.</summary>
     public SearchRecord? Search { get; init; }
 
+    /// <summary>The comparison in one paragraph: best config, how sure, and the cheapest config level with it.</summary>
+    public ComparisonVerdict Verdict => ComparisonVerdict.Of(this);
+
     public static ComparisonRecord Build(IReadOnlyList<RunRecord> runs, IEnumerable<string>? notes = null)
     {
         if (runs.Count == 0) throw new ArgumentException("no finished runs to compare");
@@ -23,6 +26,8 @@ public sealed record ComparisonRecord(IReadOnlyList<ConfigSummary> Configs, IRea
         var byConfig = runs.GroupBy(r => r.Config).ToDictionary(g => g.Key, g => (IReadOnlyList<RunRecord>)g.ToArray());
         var summaries = byConfig.Values.Select(ConfigSummary.Of)
             .OrderByDescending(s => s.Accuracy.Mean).ThenBy(s => s.Config, StringComparer.Ordinal).ToArray();
+        var labels = ConfigLabels.Of(summaries.Select(s => new ConfigLabels.Entry(s.Config, s.Settings, s.Baseline)).ToArray());
+        summaries = summaries.Select(s => s with { Label = labels[s.Config] }).ToArray();
         var best = summaries[0].Config;
         var paired = summaries.Skip(1).SelectMany(s => PairedComparison.Compare(byConfig[best], byConfig[s.Config], noteList)).ToArray();
         return new ComparisonRecord(summaries, paired, names.ToArray(), runs.Count, noteList);
@@ -35,6 +40,7 @@ public sealed record ComparisonRecord(IReadOnlyList<ConfigSummary> Configs, IRea
         var columns = new List<DataFrameColumn>
         {
             new StringDataFrameColumn("config", c.Select(x => x.Config)),
+            new StringDataFrameColumn("label", c.Select(x => x.Label)),
             new Int32DataFrameColumn("runs", c.Select(x => x.Runs)),
         };
         foreach (var (name, pick) in new (string, Func<ConfigSummary, SummaryStatistic>)[]

@@ -15,9 +15,16 @@ public sealed record CurvePoint(int Epoch, int Runs, double TrainLoss, double Va
 public sealed record ConfigSummary
 {
     public required string Config { get; init; }
+    /// <summary>The short name charts use (<see cref="ConfigLabels"/>); the full name until a comparison sets it.</summary>
+    public string Label { get; init; } = "";
+    /// <summary>The grid settings the config gives (empty for the baselines and the base config).</summary>
+    public IReadOnlyDictionary<string, string> Settings { get; init; } = new Dictionary<string, string>();
     public required string Model { get; init; }
     public required bool Baseline { get; init; }
     public required int Runs { get; init; }
+    /// <summary>Distinct training seeds and the folds per seed (1 for a holdout split).</summary>
+    public int Seeds { get; init; } = 1;
+    public int Folds { get; init; } = 1;
     public required SummaryStatistic Accuracy { get; init; }
     public required SummaryStatistic MacroF1 { get; init; }
     public required SummaryStatistic Ece { get; init; }
@@ -50,7 +57,8 @@ public sealed record ConfigSummary
         }).OrderBy(b => b.Lo).ToArray();
         return new ConfigSummary
         {
-            Config = runs[0].Config, Model = runs[0].Model, Baseline = runs[0].Baseline, Runs = runs.Count,
+            Config = runs[0].Config, Label = runs[0].Config, Settings = runs[0].Settings, Model = runs[0].Model, Baseline = runs[0].Baseline, Runs = runs.Count,
+            Seeds = runs.Select(r => r.Seed).Distinct().Count(), Folds = runs.Max(r => r.Folds),
             Accuracy = SummaryStatistic.Of(runs.Select(r => r.Accuracy)),
             MacroF1 = SummaryStatistic.Of(runs.Select(r => r.MacroF1)),
             Ece = SummaryStatistic.Of(runs.Select(r => r.Ece)),
