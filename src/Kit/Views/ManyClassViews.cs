@@ -67,7 +67,8 @@ public static class ManyClassViews
                 : "true %{y}<br>predicted %{x}<br>%{z} rows<extra></extra>",
             ["colorbar"] = new JsonObject
             {
-                ["title"] = new JsonObject { ["text"] = normalised ? "share of row<br>(capped at the<br>largest mistake)" : "rows<br>(capped at the<br>largest mistake)" },
+                // One short line: a taller title runs into the bar's top tick label; the cap is stated in the caption.
+                ["title"] = new JsonObject { ["text"] = normalised ? "share of row" : "rows", ["side"] = "top" },
             },
         };
         var bar = trace["colorbar"]!.AsObject();
