@@ -74,7 +74,7 @@ public readonly record struct TextQuad(double X1, double Y1, double X2, double Y
 
 /// <summary>
 /// One piece of text a chart drew: a tick label (<see cref="Group"/> = its axis), a title, an annotation (which
-/// carries small-multiple titles), the legend, or a number printed in a heatmap cell; with its font size in pixels.
+/// carries small-multiple titles), the legend, a point's name on a scatter, or a number printed in a heatmap cell; with its font size in pixels.
 /// </summary>
 public sealed record ChartText(string Kind, string Group, string Text, TextQuad Quad, double FontPixels)
 {
@@ -174,6 +174,7 @@ public sealed record ChartLayout(int Index, string Name, TextBox Frame, IReadOnl
             const item = (kind, group) => ({ kind, group, text: t.textContent, quad: quad(t), font: px(t) });
             if (parent.tagName === 'g' && /tick$/.test(cls)) ticks.push(item('tick label', cls));
             else if (cls === 'heatmap-label') labels.push(item('cell label', 'heatmap'));
+            else if (cls === 'textpoint') labels.push(item('point label', 'points'));
             else if (/title$/.test(own)) labels.push(item(own === 'gtitle' ? 'chart title' : 'axis title', own));
           });
           chart.querySelectorAll('g.annotation').forEach(a => {

@@ -125,38 +125,53 @@ public static class ComparisonViews
 
     public static ChartView AccuracyVsSize(ComparisonRecord c)
     {
-        // Labels sit above their points. On a log axis padded by a tenth of the span each side, a label near an edge
-        // turns inward (extends right from a left point, left from a right one) when half of it would not fit.
         var logs = c.Configs.Select(s => Math.Log10(Math.Max(1, s.Parameters))).ToArray();
         double lo = logs.Min(), hi = logs.Max(), span = Math.Max(hi - lo, 0.5), mid = (lo + hi) / 2;
         double rangeLo = mid - span / 2 - 0.1 * span, rangeHi = mid + span / 2 + 0.1 * span;
-        double plotWidth = AssumedWidth - 64 - 24;
+        var layout = Theme.Layout("Accuracy against size — up and to the left is better", "parameters (log scale)", "mean test accuracy");
+        layout["xaxis"]!["type"] = "log";
+        AxisTicks.ApplyLogCounts(layout["xaxis"]!.AsObject(), rangeLo, rangeHi);
+        // Headroom for a label above the highest point: a sixth of the data's span on top.
+        var means = c.Configs.Select(s => s.Accuracy.Mean).Where(double.IsFinite).DefaultIfEmpty(0.5).ToArray();
+        double top = means.Max(), bottom = means.Min();
+        var yAxis = layout["yaxis"]!.AsObject();
+        AxisTicks.For(bottom, top + Math.Max((top - bottom) / 6, 0.002)).ApplyTo(yAxis);
+        double yLo = yAxis["range"]![0]!.GetValue<double>(), yHi = yAxis["range"]![1]!.GetValue<double>();
+        var margin = layout["margin"]!;
+        double plotWidth = AssumedWidth - margin["l"]!.GetValue<int>() - margin["r"]!.GetValue<int>();
+        double plotHeight = layout["height"]!.GetValue<int>() - margin["t"]!.GetValue<int>() - margin["b"]!.GetValue<int>();
+        var points = c.Configs.Select((s, i) => (
+            X: (logs[i] - rangeLo) / (rangeHi - rangeLo) * plotWidth,
+            Y: double.IsFinite(s.Accuracy.Mean) ? (yHi - s.Accuracy.Mean) / (yHi - yLo) * plotHeight : double.NaN)).ToArray();
+        var placed = LabelPlacement.Place(points, c.Configs.Select(s => TextWidth.Pixels(s.Label, 12)).ToArray(), 16, plotWidth, plotHeight);
+
         var traces = new JsonArray();
         for (int i = 0; i < c.Configs.Count; i++)
         {
             var s = c.Configs[i];
-            double at = (logs[i] - rangeLo) / (rangeHi - rangeLo) * plotWidth, half = TextWidth.Pixels(s.Label, 12) / 2 + 4;
-            string position = at >= half && plotWidth - at >= half ? "top center" : at < plotWidth / 2 ? "top right" : "top left";
-            traces.Add(new JsonObject
+            var trace = new JsonObject
             {
-                ["type"] = "scatter", ["mode"] = "markers+text", ["name"] = Figure.Text(s.Label), ["text"] = new JsonArray(Figure.Text(s.Label)),
-                ["textposition"] = position,
+                ["type"] = "scatter", ["name"] = Figure.Text(s.Label),
                 ["x"] = new JsonArray(s.Parameters), ["y"] = new JsonArray(s.Accuracy.Mean),
                 ["marker"] = new JsonObject { ["size"] = 10, ["color"] = Colour(c, s), ["symbol"] = s.Baseline ? "diamond" : "circle" },
                 ["hovertemplate"] = $"{Hover(s)}<br>%{{x:,}} parameters<br>mean accuracy %{{y:.2%}}<extra></extra>",
-            });
+            };
+            // A label goes where it overlaps no other label or point; a config with no such place is named in the legend.
+            if (placed[i] is { } position)
+            {
+                trace["mode"] = "markers+text";
+                trace["text"] = new JsonArray(Figure.Text(s.Label));
+                trace["textposition"] = position;
+                trace["showlegend"] = false;
+            }
+            else trace["mode"] = "markers";
+            traces.Add(trace);
         }
-        var layout = Theme.Layout("Accuracy against size — up and to the left is better", "parameters (log scale)", "mean test accuracy");
-        layout["xaxis"]!["type"] = "log";
-        AxisTicks.ApplyLogCounts(layout["xaxis"]!.AsObject(), rangeLo, rangeHi);
-        // Headroom for the label above the highest point: a sixth of the data's span on top.
-        var means = c.Configs.Select(s => s.Accuracy.Mean).Where(double.IsFinite).DefaultIfEmpty(0.5).ToArray();
-        double top = means.Max(), bottom = means.Min();
-        AxisTicks.For(bottom, top + Math.Max((top - bottom) / 6, 0.002)).ApplyTo(layout["yaxis"]!.AsObject());
-        layout["showlegend"] = false;
+        layout["showlegend"] = placed.Any(p => p is null);
         return new ChartView("Accuracy vs parameter count", traces, layout)
         {
-            Caption = "For the baselines, parameters are their stored weights (classes × distinct n-grams + priors or biases).",
+            Caption = "For the baselines, parameters are their stored weights (classes × distinct n-grams + priors or biases)." +
+                      (placed.Any(p => p is null) ? " Configs whose name found no free place beside their point are named in the legend." : ""),
         };
     }
 

@@ -67,8 +67,8 @@ public static class ManyClassViews
                 : "true %{y}<br>predicted %{x}<br>%{z} rows<extra></extra>",
             ["colorbar"] = new JsonObject
             {
-                // One short line: a taller title runs into the bar's top tick label; the cap is stated in the caption.
-                ["title"] = new JsonObject { ["text"] = normalised ? "share of row" : "rows", ["side"] = "top" },
+                // Beside the bar, turned: above it the title runs into the top tick label (the cap is stated in the caption).
+                ["title"] = new JsonObject { ["text"] = normalised ? "share of row" : "rows", ["side"] = "right" },
             },
         };
         var bar = trace["colorbar"]!.AsObject();

@@ -114,6 +114,14 @@ public sealed class SearchRunnerTests : IDisposable
         var model = NgramModelFile.Load(outcome.ModelPath);
         Assert.Equal(BaselineKind.LogisticRegression, model.Baseline.Kind);
         Assert.Equal(sweep.Labels.Names, model.Labels.Names);
+
+        // The comparison's verdict names the best on the test rows and, apart from it, the search's validation pick.
+        var contents = ResultsStore.Read(_dir);
+        var comparison = ComparisonRecord.Build(SearchRecord.Finalists(contents.Records, SearchLog.Read(_dir)), contents.Notes) with { Search = SearchRecord.Read(_dir) };
+        var verdict = comparison.Verdict;
+        Assert.Equal(SweepConfig.LinearBaselineName, verdict.SearchChoice);
+        Assert.NotEqual(verdict.BestConfig, verdict.SearchChoice);
+        Assert.Contains("The search chose logistic regression by validation accuracy, and its saved model is the one to ship", verdict.Sentence());
     }
 
     [Fact]

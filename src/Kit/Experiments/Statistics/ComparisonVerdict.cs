@@ -41,6 +41,14 @@ public sealed record ComparisonVerdict(
     int Seeds, int Folds, LeadOver? RunnerUp, IReadOnlyList<LeadOver> Baselines,
     string? CheapestLevelConfig, string? CheapestLevelLabel, long BestParameters, long CheapestLevelParameters)
 {
+    /// <summary>
+    /// For a budgeted search: the config it chose by validation accuracy (the model it wrote), and that config's label.
+    /// It can differ from <see cref="BestConfig"/>, the best on the test rows; the search's choice is the one made
+    /// without looking at them.
+    /// </summary>
+    public string? SearchChoice { get; init; }
+    public string? SearchChoiceLabel { get; init; }
+
     static readonly CultureInfo Inv = CultureInfo.InvariantCulture;
 
     public static ComparisonVerdict Of(ComparisonRecord c)
@@ -57,8 +65,13 @@ public sealed record ComparisonVerdict(
             if (s.Config == best.Config) break;
             if (Lead(s).Level) { cheapest = s; break; }
         }
+        string? chosen = c.Search?.Choice?.Configs.FirstOrDefault();
         return new ComparisonVerdict(best.Config, best.Label, best.Accuracy.Mean, low, high, kind, best.Seeds, best.Folds, runnerUp, baselines,
-            cheapest?.Config, cheapest?.Label, best.Parameters, cheapest?.Parameters ?? 0);
+            cheapest?.Config, cheapest?.Label, best.Parameters, cheapest?.Parameters ?? 0)
+        {
+            SearchChoice = chosen,
+            SearchChoiceLabel = chosen is null ? null : c.Configs.FirstOrDefault(s => s.Config == chosen)?.Label ?? chosen,
+        };
     }
 
     /// <summary>
@@ -108,6 +121,11 @@ public sealed record ComparisonVerdict(
                 ? "No cheaper config is level with it."
                 : $"The cheapest config level with it is {CheapestLevelLabel} ({Count(CheapestLevelParameters)} parameters against {Count(BestParameters)}): no paired test tells them apart.");
         }
+        if (SearchChoice is not null)
+            parts.Add(SearchChoice == BestConfig
+                ? "The search chose the same config by validation accuracy; its saved model is the one to ship."
+                : $"The search chose {SearchChoiceLabel} by validation accuracy, and its saved model is the one to ship: " +
+                  "picking the best on these test rows instead would spend them on the choice, and the figures above would then flatter it.");
         return string.Join(" ", parts);
     }
 
