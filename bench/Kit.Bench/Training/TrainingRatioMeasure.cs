@@ -16,7 +16,7 @@ namespace Kit.Bench.Training;
 /// </summary>
 public sealed class TrainingRatioMeasure : IMeasure
 {
-    const int Embed = 32, Hidden = 64, Length = 12, TrainBatch = 256, InferBatch = 4096, Rounds = 5;
+    const int Embed = 32, Hidden = 64, Length = 12, TrainBatch = 256, InferBatch = 4096, Rounds = 9;
     const ulong Seed = 9;
 
     public IReadOnlyList<string> Ids { get; } = new[] { "train-ratio", "train-ratio-dropout", "infer-ratio" };
