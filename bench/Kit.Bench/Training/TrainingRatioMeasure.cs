@@ -38,28 +38,25 @@ public sealed class TrainingRatioMeasure : IMeasure
         // Warm-up both paths once (first calls load kernels and allocate pools).
         KitTrain(config, trainSet, options);
         BareTrain(config, trainSet, batches);
-        var kitTrain = new List<double>();
-        var bareTrain = new List<double>();
-        for (int r = 0; r < Rounds; r++)
+        // Rounds alternate kit and bare; each side's median is taken.
+        (double Kit, double Bare) Interleaved(ClassifierConfig c)
         {
-            kitTrain.Add(KitTrain(config, trainSet, options));
-            bareTrain.Add(BareTrain(config, trainSet, batches));
+            var kit = new List<double>();
+            var bare = new List<double>();
+            for (int r = 0; r < Rounds; r++)
+            {
+                kit.Add(KitTrain(c, trainSet, options));
+                bare.Add(BareTrain(c, trainSet, batches));
+            }
+            return (TrainingBenchData.Median(kit), TrainingBenchData.Median(bare));
         }
-        double kt = TrainingBenchData.Median(kitTrain), bt = TrainingBenchData.Median(bareTrain);
+        var (kt, bt) = Interleaved(config);
         yield return new Figure("train-ratio", kt / bt, "×", "≥ 0.95",
             $"median of {Rounds} interleaved one-epoch runs ({trainSet.Count} rows, {batches.Count} batches of {TrainBatch}, {threads} threads): " +
             $"kit {kt:F0} seq/s (Trainer.Fit: packed GRU, kit Adam, loss + gradient-norm check per batch) vs bare TorchSharp {bt:F0} seq/s (same model, plain tensors, optim.Adam, cross_entropy, loss read back)");
 
         // The same comparison with dropout on: both sides drive the same model, so both pay for the same masks.
-        var dropped = config with { EmbeddingDropout = Dropout, HeadDropout = Dropout };
-        var kitDrop = new List<double>();
-        var bareDrop = new List<double>();
-        for (int r = 0; r < Rounds; r++)
-        {
-            kitDrop.Add(KitTrain(dropped, trainSet, options));
-            bareDrop.Add(BareTrain(dropped, trainSet, batches));
-        }
-        double kd = TrainingBenchData.Median(kitDrop), bd = TrainingBenchData.Median(bareDrop);
+        var (kd, bd) = Interleaved(config with { EmbeddingDropout = Dropout, HeadDropout = Dropout });
         yield return new Figure("train-ratio-dropout", kd / bd, "×", "≥ 0.95",
             $"as train-ratio with dropout {Dropout} on the embeddings and before the head (training mode, both sides the same model): " +
             $"median of {Rounds} interleaved one-epoch runs, kit {kd:F0} seq/s vs bare TorchSharp {bd:F0} seq/s");

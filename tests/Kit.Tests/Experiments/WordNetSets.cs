@@ -34,22 +34,35 @@ internal static class WordNetSets
         return string.Join("\n", lines.Select(l => System.Text.RegularExpressions.Regex.Replace(l, @"^\s*\d+ ?", "").TrimEnd()));
     }
 
-    public static List<(string Text, string Label)> Glosses(string folder)
+    public static List<(string Text, string Label)> Glosses(string folder) =>
+        OneAnswer(Synsets(folder).Select(x => (x.Gloss, x.Part))).Select(x => (x.Text, Parts[x.Answer])).ToList();
+
+    /// <summary>Every non-instance synset of the four data files: its part of speech, lexicographer file and gloss, in file order.</summary>
+    static IEnumerable<(int Part, int File, string Gloss)> Synsets(string folder)
     {
-        var byText = new Dictionary<string, HashSet<int>>(StringComparer.Ordinal);
-        var order = new List<string>();
         for (int p = 0; p < Files.Length; p++)
             foreach (var line in File.ReadLines(Path.Combine(folder, "data." + Files[p]), Encoding.Latin1))
             {
                 if (line.StartsWith("  ", StringComparison.Ordinal)) continue;
                 int bar = line.IndexOf(" | ", StringComparison.Ordinal);
                 if (bar < 0) throw new InvalidDataException($"{folder}/data.{Files[p]}: a synset line without a gloss: {line[..Math.Min(60, line.Length)]}");
-                if (line[..bar].Split(' ').Contains("@i")) continue;
-                string gloss = line[(bar + 3)..].Trim();
-                if (!byText.TryGetValue(gloss, out var parts)) { byText[gloss] = parts = []; order.Add(gloss); }
-                parts.Add(p);
+                var fields = line[..bar].Split(' ');
+                if (fields.Contains("@i")) continue;
+                yield return (p, int.Parse(fields[1], System.Globalization.CultureInfo.InvariantCulture), line[(bar + 3)..].Trim());
             }
-        return order.Where(g => byText[g].Count == 1).Select(g => (g, Parts[byText[g].Single()])).ToList();
+    }
+
+    /// <summary>Each distinct text once, in first-seen order, keeping only texts that always carry the same answer.</summary>
+    static IEnumerable<(string Text, int Answer)> OneAnswer(IEnumerable<(string Text, int Answer)> rows)
+    {
+        var answers = new Dictionary<string, HashSet<int>>(StringComparer.Ordinal);
+        var order = new List<string>();
+        foreach (var (text, answer) in rows)
+        {
+            if (!answers.TryGetValue(text, out var set)) { answers[text] = set = []; order.Add(text); }
+            set.Add(answer);
+        }
+        return order.Where(t => answers[t].Count == 1).Select(t => (t, answers[t].Single()));
     }
 
     /// <summary>
@@ -61,23 +74,8 @@ internal static class WordNetSets
     public static List<(string Text, string Label)> GlossesByFile(string folder)
     {
         var names = LexicographerFileNames();
-        var byText = new Dictionary<string, HashSet<int>>(StringComparer.Ordinal);
-        var order = new List<string>();
-        for (int p = 0; p < Files.Length; p++)
-            foreach (var line in File.ReadLines(Path.Combine(folder, "data." + Files[p]), Encoding.Latin1))
-            {
-                if (line.StartsWith("  ", StringComparison.Ordinal)) continue;
-                int bar = line.IndexOf(" | ", StringComparison.Ordinal);
-                if (bar < 0) throw new InvalidDataException($"{folder}/data.{Files[p]}: a synset line without a gloss: {line[..Math.Min(60, line.Length)]}");
-                var fields = line[..bar].Split(' ');
-                if (fields.Contains("@i")) continue;
-                int file = int.Parse(fields[1], System.Globalization.CultureInfo.InvariantCulture);
-                string gloss = line[(bar + 3)..].Trim();
-                if (!byText.TryGetValue(gloss, out var files)) { byText[gloss] = files = []; order.Add(gloss); }
-                files.Add(file);
-            }
-        return order.Where(g => byText[g].Count == 1)
-            .Select(g => { int f = byText[g].Single(); return (g, names.TryGetValue(f, out var n) ? n : $"lexfile-{f:D2}"); }).ToList();
+        return OneAnswer(Synsets(folder).Select(x => (x.Gloss, x.File)))
+            .Select(x => (x.Text, names.TryGetValue(x.Answer, out var n) ? n : $"lexfile-{x.Answer:D2}")).ToList();
     }
 
     /// <summary>Number → name of WordNet's lexicographer files, read from Debian's lexnames(5WN) page (empty when absent).</summary>
@@ -96,20 +94,19 @@ internal static class WordNetSets
         return names;
     }
 
-    public static List<(string Text, string Label)> Lemmas(string folder)
+    public static List<(string Text, string Label)> Lemmas(string folder) =>
+        OneAnswer(IndexLemmas(folder)).Select(x => (x.Text, Parts[x.Answer])).ToList();
+
+    /// <summary>Single-word lemmas of the four index files with the part of speech of the file, in file order.</summary>
+    static IEnumerable<(string Lemma, int Part)> IndexLemmas(string folder)
     {
-        var parts = new Dictionary<string, HashSet<int>>(StringComparer.Ordinal);
-        var order = new List<string>();
         for (int p = 0; p < Files.Length; p++)
             foreach (var line in File.ReadLines(Path.Combine(folder, "index." + Files[p]), Encoding.Latin1))
             {
                 if (line.StartsWith("  ", StringComparison.Ordinal)) continue;
                 string lemma = line[..line.IndexOf(' ')];
-                if (lemma.Contains('_')) continue;
-                if (!parts.TryGetValue(lemma, out var set)) { parts[lemma] = set = []; order.Add(lemma); }
-                set.Add(p);
+                if (!lemma.Contains('_')) yield return (lemma, p);
             }
-        return order.Where(l => parts[l].Count == 1).Select(l => (l, Parts[parts[l].Single()])).ToList();
     }
 
     /// <summary>Writes text,label rows as CSV (quoted where needed) and the WordNet licence beside it.</summary>
