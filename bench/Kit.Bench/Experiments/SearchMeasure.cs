@@ -1,8 +1,8 @@
 using System.Diagnostics;
 using System.Globalization;
-using System.Text;
 using Kit.Data;
 using Kit.Experiments;
+using Kit.Tests.Experiments;
 
 namespace Kit.Bench.Experiments;
 
@@ -10,6 +10,7 @@ namespace Kit.Bench.Experiments;
 /// `search-<set>`: what one `kit compare --search 12 --budget 10m` reaches on each WordNet 3.0 set (Miller 1995;
 /// Fellbaum 1998; Debian wordnet-base, /usr/share/wordnet or KIT_WORDNET_DIR) against the linear n-gram baseline
 /// of the same run, and its wall time. Compare's defaults otherwise (8 epochs, one holdout split), every core.
+/// The sets are read by the tests' own loader (WordNetSets, linked in), so bench and tests train on the same rows.
 /// lemmas: single-word lemmas with one part of speech, character tokens; glosses: non-instance synset glosses with
 /// one part of speech, word tokens. KIT_BENCH_SEARCH_BUDGET (e.g. 30s) and KIT_BENCH_SEARCH_SAMPLE (rows) shrink
 /// the run for a smoke test; the figures then say so.
@@ -23,10 +24,9 @@ public sealed class SearchMeasure : IMeasure
 
     public IEnumerable<Figure> Run()
     {
-        string dir = Environment.GetEnvironmentVariable("KIT_WORDNET_DIR") is { Length: > 0 } d ? d : "/usr/share/wordnet";
-        if (!File.Exists(Path.Combine(dir, "data.noun")))
+        if (WordNetSets.Folder() is not { } dir)
         {
-            Console.Error.WriteLine($"search-*: WordNet 3.0 not found in {dir} (apt-get install wordnet-base); no figures");
+            Console.Error.WriteLine($"search-*: WordNet 3.0 not found ({WordNetSets.Install}); no figures");
             yield break;
         }
         string budgetText = Environment.GetEnvironmentVariable("KIT_BENCH_SEARCH_BUDGET") is { Length: > 0 } b ? b : "10m";
@@ -40,7 +40,7 @@ public sealed class SearchMeasure : IMeasure
             {
                 bool lemmas = set == "lemmas";
                 string csv = Path.Combine(work, $"wordnet-{set}.csv");
-                WriteCsv(lemmas ? Lemmas(dir) : Glosses(dir), csv);
+                WordNetSets.WriteCsv(lemmas ? WordNetSets.Lemmas(dir) : WordNetSets.Glosses(dir), csv, dir);
                 var spec = RunSettings.Defaults with
                 {
                     DataPath = csv, Tokenizer = lemmas ? TokenizerKind.Character : TokenizerKind.Word, SampleRows = sample,
@@ -66,50 +66,5 @@ public sealed class SearchMeasure : IMeasure
         {
             Directory.Delete(work, recursive: true);
         }
-    }
-
-    static readonly string[] Files = ["noun", "verb", "adj", "adv"];
-    static readonly string[] Parts = ["noun", "verb", "adjective", "adverb"];
-
-    /// <summary>The same reading as the tests' WordNetSets (file format: wndb(5WN)).</summary>
-    static List<(string, string)> Lemmas(string dir)
-    {
-        var parts = new Dictionary<string, HashSet<int>>(StringComparer.Ordinal);
-        var order = new List<string>();
-        for (int p = 0; p < Files.Length; p++)
-            foreach (var line in File.ReadLines(Path.Combine(dir, "index." + Files[p]), Encoding.Latin1))
-            {
-                if (line.StartsWith("  ", StringComparison.Ordinal)) continue;
-                string lemma = line[..line.IndexOf(' ')];
-                if (lemma.Contains('_')) continue;
-                if (!parts.TryGetValue(lemma, out var set)) { parts[lemma] = set = []; order.Add(lemma); }
-                set.Add(p);
-            }
-        return order.Where(l => parts[l].Count == 1).Select(l => (l, Parts[parts[l].Single()])).ToList();
-    }
-
-    static List<(string, string)> Glosses(string dir)
-    {
-        var byText = new Dictionary<string, HashSet<int>>(StringComparer.Ordinal);
-        var order = new List<string>();
-        for (int p = 0; p < Files.Length; p++)
-            foreach (var line in File.ReadLines(Path.Combine(dir, "data." + Files[p]), Encoding.Latin1))
-            {
-                if (line.StartsWith("  ", StringComparison.Ordinal)) continue;
-                int bar = line.IndexOf(" | ", StringComparison.Ordinal);
-                if (bar < 0 || line[..bar].Split(' ').Contains("@i")) continue;
-                string gloss = line[(bar + 3)..].Trim();
-                if (!byText.TryGetValue(gloss, out var parts)) { byText[gloss] = parts = []; order.Add(gloss); }
-                parts.Add(p);
-            }
-        return order.Where(g => byText[g].Count == 1).Select(g => (g, Parts[byText[g].Single()])).ToList();
-    }
-
-    static void WriteCsv(List<(string Text, string Label)> rows, string path)
-    {
-        var sb = new StringBuilder("text,label\n");
-        foreach (var (text, label) in rows)
-            sb.Append(text.IndexOfAny([',', '"', '\n', '\r']) >= 0 ? "\"" + text.Replace("\"", "\"\"") + "\"" : text).Append(',').Append(label).Append('\n');
-        File.WriteAllText(path, sb.ToString());
     }
 }
