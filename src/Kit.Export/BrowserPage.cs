@@ -61,7 +61,7 @@ public sealed class BrowserPage : IAsyncDisposable
     }
 
     /// <summary>Every chart's text boxes as laid out on screen (tick labels, titles, annotations, legend); see <see cref="ChartLayout.Problems"/>.</summary>
-    public async Task<IReadOnlyList<ChartLayout>> LayoutAsync()
+    internal async Task<IReadOnlyList<ChartLayout>> LayoutAsync()
     {
         string json = await _page.EvaluateFunctionAsync<string>(ChartLayout.Script).ConfigureAwait(false);
         using var doc = JsonDocument.Parse(json);

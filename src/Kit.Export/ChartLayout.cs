@@ -3,7 +3,7 @@ using System.Globalization;
 namespace Kit.Export;
 
 /// <summary>A rectangle on the rendered page, in CSS pixels (left, top, right, bottom).</summary>
-public readonly record struct TextBox(double Left, double Top, double Right, double Bottom)
+internal readonly record struct TextBox(double Left, double Top, double Right, double Bottom)
 {
     public double Width => Right - Left;
     public double Height => Bottom - Top;
@@ -19,7 +19,7 @@ public readonly record struct TextBox(double Left, double Top, double Right, dou
 /// The four corners of a piece of text as drawn (page pixels, in drawing order), so rotated tick labels are judged by
 /// the area their glyph line covers, not by the much larger upright box around it.
 /// </summary>
-public readonly record struct TextQuad(double X1, double Y1, double X2, double Y2, double X3, double Y3, double X4, double Y4)
+internal readonly record struct TextQuad(double X1, double Y1, double X2, double Y2, double X3, double Y3, double X4, double Y4)
 {
     public static TextQuad Of(TextBox b) => new(b.Left, b.Top, b.Right, b.Top, b.Right, b.Bottom, b.Left, b.Bottom);
 
@@ -76,7 +76,7 @@ public readonly record struct TextQuad(double X1, double Y1, double X2, double Y
 /// One piece of text a chart drew: a tick label (<see cref="Group"/> = its axis), a title, an annotation (which
 /// carries small-multiple titles), the legend, a point's name on a scatter, or a number printed in a heatmap cell; with its font size in pixels.
 /// </summary>
-public sealed record ChartText(string Kind, string Group, string Text, TextQuad Quad, double FontPixels)
+internal sealed record ChartText(string Kind, string Group, string Text, TextQuad Quad, double FontPixels)
 {
     public ChartText(string kind, string group, string text, TextBox box, double fontPixels = 12) : this(kind, group, text, TextQuad.Of(box), fontPixels) { }
 
@@ -87,7 +87,7 @@ public sealed record ChartText(string Kind, string Group, string Text, TextQuad 
 /// The text of one rendered chart as the browser laid it out, and the chart's own drawing area.
 /// <see cref="Problems"/> lists what a reader would trip over.
 /// </summary>
-public sealed record ChartLayout(int Index, string Name, TextBox Frame, IReadOnlyList<ChartText> Ticks, IReadOnlyList<ChartText> Labels)
+internal sealed record ChartLayout(int Index, string Name, TextBox Frame, IReadOnlyList<ChartText> Ticks, IReadOnlyList<ChartText> Labels)
 {
     /// <summary>
     /// Smallest text a printed or pasted chart stays readable at, in CSS pixels (common practice, no source: 8 px is
