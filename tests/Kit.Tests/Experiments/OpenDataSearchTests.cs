@@ -7,8 +7,10 @@ namespace Kit.Tests.Experiments;
 /// <summary>
 /// A small budgeted search on open data (Princeton WordNet 3.0, lemma → part of speech, see <see cref="WordNetSets"/>):
 /// the search's pick must be at least as good as the linear n-gram baseline on the validation part, and not
-/// materially worse on the test part.
+/// materially worse on the test part. It trains, so it runs alone (see EngineRandomCollection): a training run beside
+/// it in the same process once made an Adam step fail inside the engine.
 /// </summary>
+[Collection(Kit.Tests.Training.EngineRandomCollection.Name)]   // the pick depends on trained runs being reproducible
 public sealed class OpenDataSearchTests(ITestOutputHelper output) : IDisposable
 {
     readonly string _dir = Directory.CreateTempSubdirectory("kit-search-wordnet-").FullName;
